@@ -1,0 +1,3 @@
+using Serimetry.Cli;
+
+return CliHost.Run(args, Console.Out, Console.Error);

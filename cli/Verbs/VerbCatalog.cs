@@ -1,0 +1,9 @@
+namespace Serimetry.Cli.Verbs;
+
+/// <summary>The verbs, in the order the overview lists them.</summary>
+internal static class VerbCatalog
+{
+    public static IReadOnlyList<IVerb> All { get; } =
+    [
+    ];
+}
