@@ -1,0 +1,15 @@
+# A runnable image of the Serimetry service (`serimetry serve`).
+FROM mcr.microsoft.com/dotnet/sdk:10.0 AS build
+WORKDIR /src
+COPY . .
+RUN dotnet publish cli/Serimetry.Cli.csproj -c Release -o /app --nologo
+
+FROM mcr.microsoft.com/dotnet/aspnet:10.0
+WORKDIR /app
+COPY --from=build /app .
+ENV SERIMETRY_DATA=/data
+VOLUME ["/data"]
+EXPOSE 8080
+USER app
+ENTRYPOINT ["dotnet", "serimetry.dll"]
+CMD ["serve", "--urls", "http://0.0.0.0:8080"]
