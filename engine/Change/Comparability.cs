@@ -36,7 +36,21 @@ public sealed record VisitAcquisition(
     IReadOnlyList<double> BValues,
     Vec3? T2wSpacingMm,
     Vec3? AdcSpacingMm,
-    AdcSource? AdcSource);
+    AdcSource? AdcSource)
+{
+    /// <summary>
+    /// The comparability facts of a visit from its series summaries: acquisition parameters of the T2w and
+    /// of the diffusion series (DWI when given, else ADC), b-values from the DWI series (else the ADC
+    /// series' own list), and voxel spacings.
+    /// </summary>
+    public static VisitAcquisition FromSeries(int visitIndex, SeriesSummary? t2w, SeriesSummary? adc, SeriesSummary? dwi, AdcSource? source)
+    {
+        var diffusion = dwi ?? adc;
+        IReadOnlyList<double> b = dwi is { BValues.Count: > 0 } ? dwi.BValues : adc?.BValues ?? [];
+        return new VisitAcquisition(visitIndex, t2w?.Acquisition, diffusion?.Acquisition, b.Order().ToList(),
+            t2w?.SpacingMm, adc?.SpacingMm, source);
+    }
+}
 
 /// <summary>One finding of the comparability check (change.json <c>comparability[]</c>).</summary>
 public sealed record ComparabilityItem(int FromVisit, int ToVisit, string Item, string? Baseline, string? Followup, Severity Severity, string Message);

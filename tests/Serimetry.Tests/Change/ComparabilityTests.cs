@@ -47,4 +47,18 @@ public class ComparabilityTests
         Assert.Equal(2, te.Count); // vs baseline and vs the previous visit
         Assert.All(te, i => Assert.Equal(Severity.Warning, i.Severity));
     }
+
+    [Fact]
+    public void AcquisitionFactsComeFromSeriesSummaries()
+    {
+        var t2 = new SeriesSummary("1.2.3", SeriesRole.T2w, new Size3(384, 384, 24), new Vec3(0.5, 0.5, 3), Vec3.Zero, Mat3.Identity, [],
+            new AcquisitionInfo(3, "Acme"), "t2", []);
+        var dwi = new SeriesSummary("1.2.4", SeriesRole.Dwi, new Size3(128, 128, 24), new Vec3(2, 2, 3), Vec3.Zero, Mat3.Identity, [800, 50],
+            new AcquisitionInfo(3, "Acme"), "dwi", []);
+        var adc = dwi with { SeriesInstanceUid = "1.2.5", Role = SeriesRole.Adc, BValues = [] };
+        var v = VisitAcquisition.FromSeries(1, t2, adc, dwi, AdcSource.Computed);
+        Assert.Equal([50.0, 800.0], v.BValues);
+        Assert.Equal(new Vec3(2, 2, 3), v.AdcSpacingMm);
+        Assert.Equal(3, v.T2w!.FieldStrengthT);
+    }
 }
