@@ -2,40 +2,6 @@ using Serimetry.Engine.Repeatability;
 
 namespace Serimetry.Engine.Measures;
 
-/// <summary>What a measure needs from a visit. A measure whose inputs are missing returns
-/// <see cref="MeasureStatus.NotApplicable"/> with the missing input named.</summary>
-[Flags]
-public enum MeasureInputs
-{
-    None = 0,
-    T2w = 1,
-    Adc = 2,
-    GlandMask = 4,
-    LesionMask = 8,
-    Psa = 16,
-}
-
-/// <summary>Outcome of one measurement.</summary>
-public enum MeasureStatus
-{
-    /// <summary>A finite value was measured.</summary>
-    Ok,
-
-    /// <summary>The measure does not apply to this visit (missing input, empty mask); not an error.</summary>
-    NotApplicable,
-
-    /// <summary>The measurement was attempted and failed; the report is then marked partial.</summary>
-    Failed,
-}
-
-/// <summary>Scale on which trends over visits are fitted: linear, or natural log (growth measures,
-/// where a slope is a specific growth rate and gives a doubling time; Src: Schwartz 1961, Mehrara 2007).</summary>
-public enum TrendScale
-{
-    Linear,
-    Log,
-}
-
 /// <summary>
 /// The measure plugin contract. An implementation describes itself (stable dotted id, unit, IBSI code,
 /// inputs, error model) and measures one visit. Implementations must be stateless and thread-safe; the
