@@ -36,6 +36,13 @@ public sealed record TransformRecord(string Kind, double[]? Matrix4x4, string? F
 {
     /// <summary>The identity transform.</summary>
     public static TransformRecord Identity { get; } = new("identity", [1, 0, 0, 0, 0, 1, 0, 0, 0, 0, 1, 0, 0, 0, 0, 1]);
+
+    /// <summary>A linear transform as a record of the given kind (e.g. <c>rigid</c>, <c>affine</c>).</summary>
+    public static TransformRecord FromAffine(Core.AffineTransform transform, string kind = "rigid", string? file = null) =>
+        new(kind, transform.ToMatrix4x4(), file);
+
+    /// <summary>The linear part back as an <see cref="Core.AffineTransform"/>, or null when there is no matrix.</summary>
+    public Core.AffineTransform? ToAffine() => Matrix4x4 is { Length: 16 } m ? Core.AffineTransform.FromMatrix4x4(m) : null;
 }
 
 /// <summary>One measured value in change.json; value null unless status is ok.</summary>
