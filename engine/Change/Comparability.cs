@@ -11,16 +11,6 @@ public enum Severity
     Critical,
 }
 
-/// <summary>Where a visit's ADC map came from.</summary>
-public enum AdcSource
-{
-    /// <summary>Computed by the scanner.</summary>
-    Scanner,
-
-    /// <summary>Computed by Serimetry from DWI series.</summary>
-    Computed,
-}
-
 /// <summary>Acquisition facts of one visit that the comparability check compares.</summary>
 /// <param name="VisitIndex">Visit index.</param>
 /// <param name="T2w">T2w acquisition parameters, or null.</param>

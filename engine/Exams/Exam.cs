@@ -3,16 +3,6 @@ using Serimetry.Engine.Io;
 
 namespace Serimetry.Engine.Exams;
 
-/// <summary>Where an exam's ADC map came from.</summary>
-public enum AdcSource
-{
-    /// <summary>The scanner's ADC series.</summary>
-    Scanner,
-
-    /// <summary>Computed by Serimetry from the DWI series.</summary>
-    ComputedFromDwi,
-}
-
 /// <summary>One visit's images in memory, with the facts used for comparability checks.</summary>
 /// <param name="Label">A short label for messages (e.g. the folder name); never a patient identifier.</param>
 /// <param name="PatientId">Patient ID from the data (compared between exams; never logged).</param>

@@ -58,3 +58,13 @@ public sealed record StudySummary(
     string? PatientId,
     string? StudyDate,
     IReadOnlyList<SeriesSummary> Series);
+
+/// <summary>Where a visit's ADC map came from.</summary>
+public enum AdcSource
+{
+    /// <summary>Computed by the scanner (an ADC series in the exam).</summary>
+    Scanner,
+
+    /// <summary>Computed by Serimetry from the exam's DWI series.</summary>
+    Computed,
+}
