@@ -59,14 +59,14 @@ public sealed record RegistrationOptions
     public int HistogramBins { get; init; } = 32;
 
     public OptimizerKind Optimizer { get; init; } = OptimizerKind.RegularStepGradientDescent;
-    public InitializationKind Initialization { get; init; } = InitializationKind.CentersOfMass;
+    public InitializationKind Initialization { get; init; } = InitializationKind.GeometryCenters;
     public IReadOnlyList<RegistrationLevel> Levels { get; init; } = DefaultLevels;
 
     /// <summary>Seed of the sample draws; the same seed gives the same result with any thread count.</summary>
     public int Seed { get; init; } = 1234;
 
     /// <summary>Grow the fixed mask by this margin (mm, box-shaped) so the metric sees the gland border.</summary>
-    public double MaskDilationMm { get; init; }
+    public double MaskDilationMm { get; init; } = 20;
 
     /// <summary>Estimate and divide out a smooth multiplicative bias field in each image before the metric.</summary>
     public bool CorrectBias { get; init; }
@@ -89,11 +89,14 @@ public sealed record RegistrationOptions
     private static readonly RegistrationLevel[] DefaultLevels =
     [
         new(4, 4000, 200, 2.0, 0.01),
-        new(2, 8000, 200, 1.0, 0.005),
-        new(1, 20000, 200, 0.5, 0.002),
+        new(2, 10000, 200, 1.0, 0.005),
+        new(1, 40000, 200, 0.5, 0.001),
     ];
 
-    /// <summary>Follow-up T2w → baseline T2w: rigid, Mattes MI, three levels, centres of mass.</summary>
+    /// <summary>
+    /// Follow-up T2w → baseline T2w: rigid, Mattes MI, three levels, grid centres aligned at the start
+    /// (technologists centre the field of view on the gland), gland mask grown by 20 mm when given.
+    /// </summary>
     public static RegistrationOptions Rigid() => new();
 
     /// <summary>Rigid plus scaling and shear, same schedule.</summary>
