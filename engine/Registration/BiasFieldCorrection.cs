@@ -46,23 +46,32 @@ internal static class BiasFieldCorrection
         if (!Solve(ata, atb)) return image;
         atb[0] = 0; // keep the overall level: divide by the field's variation only
         var result = new float[v.Length];
+        var rowStep = g.IndexToPhysicalMatrix.Column(0) / scale;
         ParallelRange.For(g.Size.Z * g.Size.Y, 64, (_, start, end) =>
         {
             Span<double> basis = stackalloc double[Terms];
             for (int row = start; row < end; row++)
             {
                 int j = row % g.Size.Y, k = row / g.Size.Y;
+                // Along a row the point moves linearly, so the quadratic log-field is a quadratic in i.
+                var p0 = (g.IndexToPhysical(0, j, k) - center) / scale;
+                double a = LogField(p0, atb, basis);
+                double fPlus = LogField(p0 + rowStep, atb, basis), fMinus = LogField(p0 - rowStep, atb, basis);
+                double b = (fPlus - fMinus) / 2, c = (fPlus + fMinus) / 2 - a;
+                int offset = g.Size.X * row;
                 for (int i = 0; i < g.Size.X; i++)
-                {
-                    Basis((g.IndexToPhysical(i, j, k) - center) / scale, basis);
-                    double logField = 0;
-                    for (int a = 1; a < Terms; a++) logField += atb[a] * basis[a];
-                    int idx = i + g.Size.X * row;
-                    result[idx] = (float)(v[idx] * Math.Exp(-logField));
-                }
+                    result[offset + i] = (float)(v[offset + i] * Math.Exp(-(a + i * (b + i * c))));
             }
         }, maxThreads);
         return new Volume<float>(g, result);
+    }
+
+    private static double LogField(Vec3 p, double[] coefficients, Span<double> basis)
+    {
+        Basis(p, basis);
+        double f = 0;
+        for (int a = 1; a < Terms; a++) f += coefficients[a] * basis[a];
+        return f;
     }
 
     private static void Basis(Vec3 p, Span<double> phi)

@@ -41,6 +41,7 @@ public static class Registrar
         var center = TransformInitializer.RotationCenter(f, mask);
         var transform = TransformFactory.Create(options.Transform, center, TransformInitializer.InitialTranslation(options.Initialization, f, m));
         RegistrationInputs.RequireOverlap(f, mask, m, transform.ToAffine());
+        (f, mask, m) = RegistrationInputs.CropToMask(f, mask, m, transform.ToAffine());
 
         double finest = Math.Min(f.Geometry.SpacingMm.X, Math.Min(f.Geometry.SpacingMm.Y, f.Geometry.SpacingMm.Z));
         var reports = new List<LevelReport>();

@@ -71,4 +71,40 @@ internal static class RegistrationInputs
                 $"the images do not overlap in physical space (fixed {fg.Describe()}; moving {mg.Describe()})",
                 "check both series belong to the same patient and frame of reference; for different scanner positions use a centre-of-mass or geometry-centre initialisation");
     }
+
+    /// <summary>Margin kept around the (dilated) mask: more than 3σ of the coarsest default smoothing.</summary>
+    internal const double FixedCropMarginMm = 10;
+
+    /// <summary>How far (mm) the optimisation may move the mask region from its starting position and still see moving data.</summary>
+    internal const double MovingCropMarginMm = 40;
+
+    /// <summary>
+    /// With a mask, only the mask's neighbourhood of the fixed image and the part of the moving image it can
+    /// reach (the box mapped by the starting transform, grown by <see cref="MovingCropMarginMm"/>) take part,
+    /// so the pyramid is built on a fraction of a large field of view. Results equal those on the full
+    /// images except where the motion exceeds that margin.
+    /// </summary>
+    public static (Volume<float> Fixed, Volume<byte>? Mask, Volume<float> Moving) CropToMask(
+        Volume<float> fixedImage, Volume<byte>? mask, Volume<float> moving, AffineTransform start)
+    {
+        if (mask is null || MaskOperations.BoundingBox(mask, FixedCropMarginMm) is not { } box) return (fixedImage, mask, moving);
+        var f = MaskOperations.Crop(fixedImage, box.Lo, box.Hi);
+        var k = MaskOperations.Crop(mask, box.Lo, box.Hi);
+        var fg = fixedImage.Geometry;
+        var mg = moving.Geometry;
+        double lx = double.MaxValue, ly = double.MaxValue, lz = double.MaxValue, hx = double.MinValue, hy = double.MinValue, hz = double.MinValue;
+        for (int c = 0; c < 8; c++)
+        {
+            var corner = new Vec3((c & 1) == 0 ? box.Lo.I : box.Hi.I, (c & 2) == 0 ? box.Lo.J : box.Hi.J, (c & 4) == 0 ? box.Lo.K : box.Hi.K);
+            var idx = mg.PhysicalToIndex(start.TransformPoint(fg.IndexToPhysical(corner)));
+            lx = Math.Min(lx, idx.X); ly = Math.Min(ly, idx.Y); lz = Math.Min(lz, idx.Z);
+            hx = Math.Max(hx, idx.X); hy = Math.Max(hy, idx.Y); hz = Math.Max(hz, idx.Z);
+        }
+        var sp = mg.SpacingMm;
+        int Lo(double v, double spacing) => (int)Math.Floor(v - MovingCropMarginMm / spacing);
+        int Hi(double v, double spacing) => (int)Math.Ceiling(v + MovingCropMarginMm / spacing);
+        var lo = new VoxelIndex(Math.Clamp(Lo(lx, sp.X), 0, mg.Size.X - 1), Math.Clamp(Lo(ly, sp.Y), 0, mg.Size.Y - 1), Math.Clamp(Lo(lz, sp.Z), 0, mg.Size.Z - 1));
+        var hi = new VoxelIndex(Math.Clamp(Hi(hx, sp.X), 0, mg.Size.X - 1), Math.Clamp(Hi(hy, sp.Y), 0, mg.Size.Y - 1), Math.Clamp(Hi(hz, sp.Z), 0, mg.Size.Z - 1));
+        return (f, k, MaskOperations.Crop(moving, lo, hi));
+    }
 }
