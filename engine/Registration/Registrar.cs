@@ -1,0 +1,147 @@
+using System.Diagnostics;
+using Serimetry.Engine.Core;
+using Serimetry.Engine.Registration.Interpolation;
+using Serimetry.Engine.Registration.Metrics;
+using Serimetry.Engine.Registration.Optimizers;
+using Serimetry.Engine.Registration.Pyramid;
+using Serimetry.Engine.Registration.Transforms;
+
+namespace Serimetry.Engine.Registration;
+
+/// <summary>
+/// The one-call registration facade: transform, metric, linear interpolator, optimizer and
+/// multi-resolution driver composed as the options say (the decomposition of ITK's registration framework).
+/// </summary>
+public static class Registrar
+{
+    /// <summary>
+    /// Estimates the transform mapping fixed-image points (LPS mm) to moving-image points. Throws
+    /// <see cref="RegistrationException"/> for inputs that cannot be registered (constant image, empty mask,
+    /// no overlap), <see cref="GeometryMismatchException"/> when the mask is not on the fixed grid and
+    /// <see cref="InvalidParameterException"/> for bad options; everything else comes back as data.
+    /// </summary>
+    public static RegistrationResult Register(Volume<float> fixedImage, Volume<float> moving, RegistrationOptions options,
+        Volume<byte>? fixedMask = null, IProgress<RegistrationProgress>? progress = null)
+    {
+        ArgumentNullException.ThrowIfNull(fixedImage);
+        ArgumentNullException.ThrowIfNull(moving);
+        ArgumentNullException.ThrowIfNull(options);
+        Validate(options);
+        var clock = Stopwatch.StartNew();
+        var deadline = DateTime.UtcNow + options.TimeLimit;
+        var warnings = new List<string>();
+        var f = RegistrationInputs.Sanitize(fixedImage, "fixed", warnings);
+        var m = RegistrationInputs.Sanitize(moving, "moving", warnings);
+        var mask = RegistrationInputs.PrepareMask(fixedMask, f.Geometry, options.MaskDilationMm);
+        if (options.CorrectBias)
+        {
+            f = BiasFieldCorrection.Correct(f, options.MaxThreads);
+            m = BiasFieldCorrection.Correct(m, options.MaxThreads);
+        }
+        var center = TransformInitializer.RotationCenter(f, mask);
+        var transform = TransformFactory.Create(options.Transform, center, TransformInitializer.InitialTranslation(options.Initialization, f, m));
+        RegistrationInputs.RequireOverlap(f, mask, m, transform.ToAffine());
+        (f, mask, m) = RegistrationInputs.CropToMask(f, mask, m, transform.ToAffine());
+
+        double finest = Math.Min(f.Geometry.SpacingMm.X, Math.Min(f.Geometry.SpacingMm.Y, f.Geometry.SpacingMm.Z));
+        var reports = new List<LevelReport>();
+        ImageMetric? metric = null;
+        for (int li = 0; li < options.Levels.Count; li++)
+        {
+            var level = options.Levels[li];
+            var images = ResolutionLevel.Build(f, mask, m, level.ShrinkFactor, level.SmoothingSigmaMm, finest, options.MaxThreads);
+            int seed = level.Seed ?? options.Seed + li;
+            metric = CreateMetric(options, images, level.Samples, seed);
+            var report = RunLevel(li, level, images, metric, transform, options, deadline, progress, seed);
+            if (report.StopReason == StopReason.MetricNotFinite)
+                warnings.Add($"level {li}: too few samples overlap the moving image; the level was skipped");
+            reports.Add(report);
+        }
+        return Summarise(transform, metric!, reports, options, warnings, center, clock.Elapsed.TotalSeconds);
+    }
+
+    private static LevelReport RunLevel(int li, RegistrationLevel level, ResolutionLevel images, ImageMetric metric,
+        IParametricTransform transform, RegistrationOptions options, DateTime deadline,
+        IProgress<RegistrationProgress>? progress, int seed)
+    {
+        var clock = Stopwatch.StartNew();
+        int p = transform.ParameterCount;
+        var scales = TransformFactory.EstimateScales(transform, metric.Samples);
+        var start = new double[p];
+        transform.GetParameters(start);
+        for (int k = 0; k < p; k++) start[k] *= scales[k];
+        var raw = new double[p];
+        var gRaw = new double[p];
+        double Objective(ReadOnlySpan<double> q, Span<double> g)
+        {
+            for (int k = 0; k < p; k++) raw[k] = q[k] / scales[k];
+            transform.SetParameters(raw);
+            double v = metric.Evaluate(transform, gRaw);
+            for (int k = 0; k < p; k++) g[k] = gRaw[k] / scales[k];
+            return v;
+        }
+        double startValue = metric.Evaluate(transform, gRaw);
+        var settings = new OptimizerSettings(level.MaxIterations, level.MaxStepMm, level.MinStepMm, DeadlineUtc: deadline);
+        Action<int, double>? onIteration = progress is null ? null : (it, v) => progress.Report(new(li, options.Levels.Count, it, v));
+        var outcome = options.Optimizer == OptimizerKind.Lbfgs
+            ? LbfgsOptimizer.Minimize(Objective, start, settings, onIteration)
+            : RegularStepGradientDescent.Minimize(Objective, start, settings, onIteration);
+        for (int k = 0; k < p; k++) raw[k] = outcome.Parameters[k] / scales[k];
+        transform.SetParameters(raw);
+        return new LevelReport(li, images.FixedShrink, images.MovingShrink, images.FixedSigmaMm, metric.Samples.Count, seed,
+            outcome.Iterations, outcome.StopReason, startValue, outcome.Value, clock.Elapsed.TotalSeconds);
+    }
+
+    private static ImageMetric CreateMetric(RegistrationOptions o, ResolutionLevel images, int samples, int seed)
+    {
+        var set = SampleSet.Draw(images.Fixed, images.Mask, samples, seed);
+        var interp = new LinearInterpolator(images.Moving);
+        return o.Metric switch
+        {
+            MetricKind.MattesMutualInformation => new MattesMutualInformationMetric(set, interp, o.MaxThreads, o.HistogramBins,
+                Range(set.FixedValues), Range(images.Moving.Voxels)),
+            MetricKind.Correlation => new CorrelationMetric(set, interp, o.MaxThreads),
+            MetricKind.MeanSquares => new MeanSquaresMetric(set, interp, o.MaxThreads),
+            _ => throw new ArgumentOutOfRangeException(nameof(o)),
+        };
+    }
+
+    private static (double Min, double Max) Range(float[] v)
+    {
+        float min = float.PositiveInfinity, max = float.NegativeInfinity;
+        foreach (var x in v) { if (x < min) min = x; if (x > max) max = x; }
+        return (min, max);
+    }
+
+    private static RegistrationResult Summarise(IParametricTransform transform, ImageMetric metric, List<LevelReport> reports,
+        RegistrationOptions options, List<string> warnings, Vec3 center, double elapsed)
+    {
+        var parameters = new double[transform.ParameterCount];
+        transform.GetParameters(parameters);
+        double after = metric.Evaluate(transform, default);
+        var identity = TransformFactory.Create(options.Transform, center, Vec3.Zero);
+        double before = metric.Evaluate(identity, default);
+        var affine = transform.ToAffine();
+        double rotation = RegistrationQuality.RotationDegrees(affine.Linear);
+        double shift = (affine.TransformPoint(center) - center).Norm;
+        RegistrationQuality.AddWarnings(warnings, options, rotation, shift, before, after);
+        if (reports.Exists(r => r.StopReason == StopReason.TimeLimit))
+            warnings.Add("the time limit was reached before the optimisation finished");
+        return new RegistrationResult(affine, transform.Kind, metric.Name, before, after, reports, reports[^1].StopReason,
+            warnings, options, parameters, transform.ParameterNames, center, rotation, shift, elapsed);
+    }
+
+    private static void Validate(RegistrationOptions o)
+    {
+        if (o.Levels.Count == 0) throw new InvalidParameterException("the schedule has no level", "registration levels", "give at least one level");
+        foreach (var l in o.Levels)
+        {
+            if (!(l.ShrinkFactor >= 1) || l.MaxIterations < 0 || !(l.MaxStepMm > 0) || !(l.MinStepMm > 0) || l.Samples < 0)
+                throw new InvalidParameterException($"invalid level {l}", "registration levels",
+                    "shrink factor ≥ 1, iterations ≥ 0, samples ≥ 0, positive step lengths");
+        }
+        if (o.HistogramBins is < 8 or > 512)
+            throw new InvalidParameterException($"histogram bins {o.HistogramBins} outside 8–512", "histogram bins");
+        if (o.TimeLimit <= TimeSpan.Zero) throw new InvalidParameterException("the time limit must be positive", "time limit");
+    }
+}

@@ -1,0 +1,43 @@
+using Serimetry.Engine.Core;
+using Serimetry.Engine.Registration.Metrics;
+
+namespace Serimetry.Engine.Registration.Transforms;
+
+/// <summary>Creates parametric transforms and their parameter scales.</summary>
+internal static class TransformFactory
+{
+    /// <summary>A transform of <paramref name="kind"/> about <paramref name="centerMm"/>, starting as a pure translation.</summary>
+    public static IParametricTransform Create(TransformKind kind, Vec3 centerMm, Vec3 translationMm) => kind switch
+    {
+        TransformKind.Translation => new TranslationTransform(translationMm),
+        TransformKind.Rigid => new EulerRigidTransform(centerMm, Vec3.Zero, translationMm),
+        TransformKind.Affine => new CenteredAffineTransform(centerMm, Mat3.Identity, translationMm),
+        _ => throw new ArgumentOutOfRangeException(nameof(kind)),
+    };
+
+    /// <summary>
+    /// Per-parameter scales s_k = RMS over sample points of |∂T(x)/∂p_k| (mm per unit parameter), so that a
+    /// unit step of the scaled parameter p_k·s_k moves points by about 1 mm whatever the parameter is
+    /// (radians vs mm). The same idea as elastix's automatic scales estimation.
+    /// </summary>
+    public static double[] EstimateScales(IParametricTransform t, SampleSet samples, int maxPoints = 2000)
+    {
+        int p = t.ParameterCount;
+        var sum = new double[p];
+        Span<double> row = stackalloc double[p];
+        int stride = Math.Max(1, samples.Count / maxPoints), used = 0;
+        ReadOnlySpan<Vec3> axes = [new Vec3(1, 0, 0), new Vec3(0, 1, 0), new Vec3(0, 0, 1)];
+        for (int i = 0; i < samples.Count; i += stride, used++)
+        {
+            var x = samples.Point(i);
+            foreach (var axis in axes)
+            {
+                t.ProjectGradient(x, axis, row);
+                for (int k = 0; k < p; k++) sum[k] += row[k] * row[k];
+            }
+        }
+        var scales = new double[p];
+        for (int k = 0; k < p; k++) scales[k] = Math.Max(1e-6, Math.Sqrt(sum[k] / Math.Max(1, used)));
+        return scales;
+    }
+}
