@@ -22,6 +22,12 @@ public sealed record ExamManifest
     public ExamManifestSeries Series { get; init; } = new();
     public Dictionary<string, AcquisitionInfo>? Acquisition { get; init; }
 
+    /// <summary>b-values (s/mm²) the scanner used for its ADC map, when the DWI series are not given.</summary>
+    public List<double>? AdcBValues { get; init; }
+
+    /// <summary>Outlines drawn on this exam (paths relative to the manifest); they take precedence over propagated ones.</summary>
+    public ExamManifestMasks? Masks { get; init; }
+
     internal static readonly JsonSerializerOptions Json = new()
     {
         PropertyNamingPolicy = JsonNamingPolicy.CamelCase,
@@ -78,4 +84,11 @@ public sealed record ExamManifestSeries
 
     /// <summary>b-value (s/mm², as text) → file.</summary>
     public Dictionary<string, string>? Dwi { get; init; }
+}
+
+/// <summary>The optional <c>masks</c> block of <see cref="ExamManifest"/>.</summary>
+public sealed record ExamManifestMasks
+{
+    public string? Gland { get; init; }
+    public string? Lesion { get; init; }
 }

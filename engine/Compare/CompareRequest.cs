@@ -1,0 +1,40 @@
+using Serimetry.Engine.Change;
+using Serimetry.Engine.Repeatability;
+
+namespace Serimetry.Engine.Compare;
+
+/// <summary>Everything a comparison needs. Paths are read by the pipeline; nothing is written until the end.</summary>
+/// <param name="BaselineExam">Baseline exam (folder with exam.json).</param>
+/// <param name="FollowupExams">Follow-up exams, any order (sorted by date).</param>
+/// <param name="GlandMask">Baseline gland outline (NIfTI), or null to use the exam's own.</param>
+/// <param name="LesionMask">Baseline lesion outline (NIfTI), or null to use the exam's own (none: whole-gland measures only).</param>
+/// <param name="Psa">PSA values with dates.</param>
+/// <param name="Profile">Repeatability profile for the 95 % bands.</param>
+/// <param name="Options">Processing options.</param>
+public sealed record CompareRequest(
+    string BaselineExam,
+    IReadOnlyList<string> FollowupExams,
+    string? GlandMask,
+    string? LesionMask,
+    IReadOnlyList<PsaSample> Psa,
+    RepeatabilityProfile Profile,
+    CompareOptions Options);
+
+/// <summary>Processing options of a comparison, recorded in change.json.</summary>
+/// <param name="AllowDifferentPatients">Compare exams whose patient IDs differ (refused by default).</param>
+/// <param name="FollowupPreset">Registration preset for follow-up T2w → baseline T2w.</param>
+/// <param name="WithinExamPreset">Registration preset for ADC → T2w inside each exam, or null to trust the scanner geometry.</param>
+/// <param name="Refit">Lesion re-fit settings.</param>
+/// <param name="MaxThreads">Threads for parallel loops (-1: all cores).</param>
+public sealed record CompareOptions(
+    bool AllowDifferentPatients = false,
+    string FollowupPreset = "rigid",
+    string? WithinExamPreset = "within-exam",
+    LesionRefitSettings? Refit = null,
+    int MaxThreads = -1)
+{
+    public LesionRefitSettings RefitSettings => Refit ?? new LesionRefitSettings();
+}
+
+/// <summary>Progress of a comparison: stage name and overall fraction done.</summary>
+public sealed record CompareProgress(string Stage, double Fraction);
