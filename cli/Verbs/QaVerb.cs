@@ -13,12 +13,16 @@ internal sealed class QaVerb : IVerb
     public VerbSpec Spec { get; } = new(
         "qa",
         "Quality assurance: test-retest statistics and the site's repeatability profile",
-        "test-retest --input TABLE.csv --out PROFILE.json [--scale auto|log|absolute] [--date YYYY-MM-DD]",
+        "test-retest --input TABLE.csv --out PROFILE.json [--scale auto|log|absolute] [--date YYYY-MM-DD]\n"
+        + "       serimetry qa reproducibility --phantom SPEC.json --repeats R [--profile PROFILE.json] [--out QA.json]",
         [
             new OptionSpec("input", "TABLE.csv", "tidy CSV with header subject,measure,repeat,value"),
             new OptionSpec("out", "PROFILE.json", "where to write the statistics / repeatability profile"),
             new OptionSpec("scale", "auto|log|absolute", "error scale of the profile entries (auto: log when all values are positive)"),
             new OptionSpec("date", "YYYY-MM-DD", "date of the QA run recorded in each entry's source (default: today, UTC)"),
+            new OptionSpec("phantom", "SPEC.json", "reproducibility: phantom specification (e.g. phantoms/qa-reproducibility.json)"),
+            new OptionSpec("repeats", "R", "reproducibility: number of noisy re-acquisitions (2-1000)"),
+            new OptionSpec("profile", "PROFILE.json", "reproducibility: profile to judge change against (default: published defaults)"),
         ],
         MinPositionals: 1, MaxPositionals: 1,
         Details: "Sub-commands:\n  test-retest   wSD, wCV (log method), RC = 2.77·wSD, ICC(1,1) (2,1) (3,1) and average forms with 95 % CIs,\n"
@@ -29,7 +33,8 @@ internal sealed class QaVerb : IVerb
         return args.Positionals[0] switch
         {
             "test-retest" => RunTestRetest(args, ctx),
-            var other => throw new UsageException($"unknown qa sub-command '{other}' (expected test-retest)"),
+            "reproducibility" => QaReproducibility.Run(args, ctx),
+            var other => throw new UsageException($"unknown qa sub-command '{other}' (expected test-retest or reproducibility)"),
         };
     }
 
@@ -53,7 +58,7 @@ internal sealed class QaVerb : IVerb
         return 0;
     }
 
-    private static DateOnly ParseDate(string? text)
+    internal static DateOnly ParseDate(string? text)
     {
         if (text is null) return DateOnly.FromDateTime(DateTime.UtcNow);
         if (!DateOnly.TryParseExact(text, "yyyy-MM-dd", CultureInfo.InvariantCulture, DateTimeStyles.None, out var d))

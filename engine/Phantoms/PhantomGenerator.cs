@@ -9,7 +9,8 @@ namespace Serimetry.Engine.Phantoms;
 /// made by mapping every voxel centre q of the visit grid through the inverse true transform to the baseline
 /// anatomy point p = T⁻¹(q) and evaluating the analytic anatomy there, so motion is exact (no resampling).
 /// The bias field is fixed to the scanner grid (it does not move with the patient); texture moves with the
-/// anatomy. Images are centre-sampled (no partial-volume blurring); Rician noise is added last.
+/// anatomy. Image signals average sub-samples inside each voxel (partial volume at edges); masks are sampled at
+/// voxel centres; Rician noise is added last.
 /// </summary>
 public static class PhantomGenerator
 {
@@ -94,11 +95,11 @@ public static class PhantomGenerator
 
         var dwiGeometry = GridGeometry(spec.DwiGrid, spec.ObliqueTiltDeg, centre);
         var dwi = new List<DwiImage>();
+        var signals = renderer.RenderDwi(dwiGeometry, spec.BValues, maxDegree);
         for (int i = 0; i < spec.BValues.Length; i++)
         {
-            var img = renderer.RenderDwi(dwiGeometry, spec.BValues[i], maxDegree);
-            new RicianNoise(NoiseSeed(spec, k, i + 1)).Apply(img.Voxels, spec.PeripheralZone.DwiS0 / spec.DwiSnr);
-            dwi.Add(new DwiImage(spec.BValues[i], img));
+            new RicianNoise(NoiseSeed(spec, k, i + 1)).Apply(signals[i].Voxels, spec.PeripheralZone.DwiS0 / spec.DwiSnr);
+            dwi.Add(new DwiImage(spec.BValues[i], signals[i]));
         }
         var adc = AdcFitter.Fit(dwi, null, ScannerAdcOptions(spec, maxDegree)).AdcUm2PerS;
         var date = VisitDate(spec, k);
@@ -117,7 +118,7 @@ public static class PhantomGenerator
             : new AdcFitOptions(AdcFitMethod.WeightedLogLinear, MinBValue: 0, MaxDegreeOfParallelism: maxDegree);
     }
 
-    private static int NoiseSeed(PhantomSpec spec, int visit, int channel) => unchecked(spec.Seed * 7919 + visit * 101 + channel * 13 + 1);
+    private static int NoiseSeed(PhantomSpec spec, int visit, int channel) => unchecked((spec.NoiseSeed ?? spec.Seed) * 7919 + visit * 101 + channel * 13 + 1);
 
     internal static DateOnly VisitDate(PhantomSpec spec, int k) =>
         DateOnly.ParseExact(spec.FirstVisitDate, "yyyy-MM-dd").AddMonths(k * spec.VisitIntervalMonths);

@@ -28,6 +28,9 @@ public sealed record PhantomSpec
 {
     public string SubjectId { get; init; } = "NSC-0007";
     public int Seed { get; init; } = 7;
+
+    /// <summary>Seed of the image noise; null = derived from <see cref="Seed"/>. Re-acquisitions of one anatomy differ only here.</summary>
+    public int? NoiseSeed { get; init; }
     public int Visits { get; init; } = 3;
     public string FirstVisitDate { get; init; } = "2022-03-14";
     public int VisitIntervalMonths { get; init; } = 18;

@@ -26,8 +26,15 @@ public static class TestRetestProfileWriter
     public const string SchemaId = "serimetry-repeatability/1";
 
     /// <summary>Writes the report to <paramref name="stream"/> as indented UTF-8 JSON.</summary>
+    /// <param name="stream">Destination.</param>
+    /// <param name="report">Statistics to write.</param>
+    /// <param name="runDate">Date recorded in each entry's source ("site QA run YYYY-MM-DD").</param>
+    /// <param name="scale">How each entry's error scale is chosen.</param>
+    /// <param name="units">Optional unit per measure id.</param>
+    /// <param name="name">Profile name (default "site QA run YYYY-MM-DD").</param>
+    /// <param name="extra">Writes additional top-level properties (e.g. a QA run's false-positive rates).</param>
     public static void Write(Stream stream, TestRetestReport report, DateOnly runDate, ScaleChoice scale = ScaleChoice.Auto,
-        IReadOnlyDictionary<string, string>? units = null, string? name = null)
+        IReadOnlyDictionary<string, string>? units = null, string? name = null, Action<Utf8JsonWriter>? extra = null)
     {
         using var w = new Utf8JsonWriter(stream, new JsonWriterOptions { Indented = true });
         w.WriteStartObject();
@@ -38,6 +45,7 @@ public static class TestRetestProfileWriter
         w.WriteStartArray("measures");
         foreach (var m in report.Measures) WriteMeasure(w, m, runDate, scale, units);
         w.WriteEndArray();
+        extra?.Invoke(w);
         w.WriteEndObject();
     }
 
