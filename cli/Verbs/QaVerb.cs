@@ -14,7 +14,8 @@ internal sealed class QaVerb : IVerb
         "qa",
         "Quality assurance: test-retest statistics and the site's repeatability profile",
         "test-retest --input TABLE.csv --out PROFILE.json [--scale auto|log|absolute] [--date YYYY-MM-DD]\n"
-        + "       serimetry qa reproducibility --phantom SPEC.json --repeats R [--profile PROFILE.json] [--out QA.json]",
+        + "       serimetry qa reproducibility --phantom SPEC.json --repeats R [--profile PROFILE.json] [--out QA.json]\n"
+        + "       serimetry qa dwi-phantom (--exam DIR | --dwi B=FILE ...) [--roi MASK] [--temperature C | --reference ADC] [--tolerance PCT]",
         [
             new OptionSpec("input", "TABLE.csv", "tidy CSV with header subject,measure,repeat,value"),
             new OptionSpec("out", "PROFILE.json", "where to write the statistics / repeatability profile"),
@@ -23,6 +24,15 @@ internal sealed class QaVerb : IVerb
             new OptionSpec("phantom", "SPEC.json", "reproducibility: phantom specification (e.g. phantoms/qa-reproducibility.json)"),
             new OptionSpec("repeats", "R", "reproducibility: number of noisy re-acquisitions (2-1000)"),
             new OptionSpec("profile", "PROFILE.json", "reproducibility: profile to judge change against (default: published defaults)"),
+            new OptionSpec("exam", "DIR", "dwi-phantom: NIfTI exam folder whose exam.json lists the DWI files"),
+            new OptionSpec("dwi", "B=FILE", "dwi-phantom: one DWI volume and its b-value (s/mm²)", Repeatable: true),
+            new OptionSpec("roi", "MASK", "dwi-phantom: vial label mask (NIfTI); default: find circular vials"),
+            new OptionSpec("temperature", "C", "dwi-phantom: water temperature; reference from the Speedy-Angell law (default 0 °C ice water)"),
+            new OptionSpec("reference", "ADC", "dwi-phantom: reference ADC in 10^-6 mm²/s (overrides --temperature)"),
+            new OptionSpec("tolerance", "PCT", "dwi-phantom: pass when |bias| ≤ PCT % (default 5)"),
+            new OptionSpec("b-values", "B1,B2,...", "dwi-phantom: b-values to fit (default: all ≥ --min-b)"),
+            new OptionSpec("min-b", "B", "dwi-phantom: exclude b below this (default 200 s/mm²)"),
+            new OptionSpec("method", "lls|wls|nls", "dwi-phantom: ADC fit (default wls)"),
         ],
         MinPositionals: 1, MaxPositionals: 1,
         Details: "Sub-commands:\n  test-retest   wSD, wCV (log method), RC = 2.77·wSD, ICC(1,1) (2,1) (3,1) and average forms with 95 % CIs,\n"
@@ -34,7 +44,8 @@ internal sealed class QaVerb : IVerb
         {
             "test-retest" => RunTestRetest(args, ctx),
             "reproducibility" => QaReproducibility.Run(args, ctx),
-            var other => throw new UsageException($"unknown qa sub-command '{other}' (expected test-retest or reproducibility)"),
+            "dwi-phantom" => QaDwiPhantom.Run(args, ctx),
+            var other => throw new UsageException($"unknown qa sub-command '{other}' (expected test-retest, reproducibility or dwi-phantom)"),
         };
     }
 

@@ -55,3 +55,40 @@ public sealed class QaVerbTests : IDisposable
         Assert.Contains("test-retest", err);
     }
 }
+
+public sealed class QaDwiPhantomVerbTests : IDisposable
+{
+    private readonly string _dir = Directory.CreateTempSubdirectory("serimetry-dwi-").FullName;
+
+    public void Dispose() => Directory.Delete(_dir, true);
+
+    private string[] WritePhantom(double adc)
+    {
+        var dwi = Serimetry.Engine.Phantoms.IceWaterPhantom.Generate(new Serimetry.Engine.Core.Size3(40, 40, 3),
+            new Serimetry.Engine.Core.Vec3(1.5, 1.5, 4), [0, 500, 900], 60, 5, adcUm2PerS: adc);
+        var args = new List<string>();
+        foreach (var d in dwi)
+        {
+            var f = Path.Combine(_dir, $"b{d.BValue}.nii.gz");
+            Serimetry.Engine.Io.Nifti.NiftiFile.Write(f, d.Image);
+            args.Add("--dwi");
+            args.Add($"{d.BValue}={f}");
+        }
+        return [.. args];
+    }
+
+    [Fact]
+    public void IceWaterPhantomPassesAndWarmWaterFails()
+    {
+        // Src: water at 0 °C = 1.099e-3 mm²/s (Holz et al. PCCP 2000 parameters; facts.md §2).
+        var o = new StringWriter();
+        int code = CliHost.Run(["qa", "dwi-phantom", .. WritePhantom(1099)], o, new StringWriter());
+        Assert.Equal(0, code);
+        Assert.Contains("PASS", o.ToString());
+        code = CliHost.Run(["qa", "dwi-phantom", .. WritePhantom(2020)], new StringWriter(), new StringWriter());
+        Assert.Equal(1, code);
+        // The same warm scan passes when judged at its temperature (20 °C: 2.02e-3 mm²/s, facts.md §2).
+        code = CliHost.Run(["qa", "dwi-phantom", "--temperature", "20", .. WritePhantom(2020)], new StringWriter(), new StringWriter());
+        Assert.Equal(0, code);
+    }
+}
