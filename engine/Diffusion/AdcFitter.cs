@@ -108,11 +108,8 @@ public static class AdcFitter
                 double corrected = sigma > 0 ? Math.Sqrt(s * s - sigma * sigma) : s;
                 _b[n] = bValues[i]; _s[n] = corrected; _w[n] = options.Method == AdcFitMethod.LogLinear ? 1 : corrected * corrected; n++;
             }
-            if (!MonoExponentialFit.LogLinear(_b, _s, _w, n, out s0, out double d))
-            {
-                if (options.Method != AdcFitMethod.NonLinear || all < 2) return VoxelStatus.Failed;
-                if (!MonoExponentialFit.LogLinear(_allB, _allS, _allS.AsSpan(0, all), all, out s0, out d)) return VoxelStatus.Failed;
-            }
+            // Fewer than two points above the noise floor: no measurable signal decay (counted as failed).
+            if (!MonoExponentialFit.LogLinear(_b, _s, _w, n, out s0, out double d)) return VoxelStatus.Failed;
             double fitSigma = 0;
             if (options.Method == AdcFitMethod.NonLinear)
             {
