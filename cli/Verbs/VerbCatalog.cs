@@ -7,5 +7,6 @@ internal static class VerbCatalog
     [
         new PhantomVerb(),
         new QaVerb(),
+        new QaAdcVerb(),
     ];
 }
