@@ -16,6 +16,7 @@ internal static class QaDwiInput
     {
         var pairs = new List<(double B, string File)>();
         if (args.Get("exam") is string exam) pairs.AddRange(FromManifest(exam));
+        if (args.GetAll("exam").Count > 1) throw new UsageException("give one --exam");
         foreach (var item in args.GetAll("dwi"))
         {
             int eq = item.IndexOf('=');
@@ -26,6 +27,10 @@ internal static class QaDwiInput
         if (pairs.Count == 0) throw new UsageException("give --exam DIR (with exam.json) or --dwi B=FILE for each b-value");
         return pairs.Select(p => new DwiImage(p.B, NiftiFile.ReadVolume(p.File).Volume)).ToList();
     }
+
+    /// <summary>The DWI volumes of one NIfTI exam folder.</summary>
+    public static IReadOnlyList<DwiImage> FromExam(string dir) =>
+        FromManifest(dir).Select(p => new DwiImage(p.B, NiftiFile.ReadVolume(p.File).Volume)).ToList();
 
     private static IEnumerable<(double B, string File)> FromManifest(string dir)
     {

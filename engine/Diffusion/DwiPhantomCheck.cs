@@ -7,7 +7,7 @@ namespace Serimetry.Engine.Diffusion;
 /// <param name="TolerancePercent">Pass when |bias| ≤ this (default 5 %, the upper end of the isocentre bias range
 /// −2 % to +5 % observed on 35 clinical scanners, Malyarenko et al., JMRI 2013;37:1238; the QIBA profile's own
 /// limit is not confirmed here — set it from the profile's conformance section).</param>
-/// <param name="Fit">ADC fit options (default weighted log-linear, b ≥ 200 excluded below).</param>
+/// <param name="Fit">ADC fit options (default weighted log-linear over every b-value: a water phantom has no perfusion, so low b is not excluded).</param>
 /// <param name="VialThresholdFraction">Vial search: voxels above this fraction of the 99th percentile of the lowest-b image.</param>
 /// <param name="MinVialVoxels">Vial search: smallest connected component kept.</param>
 /// <param name="RoiRadiusFraction">Vial search: ROI = voxels within this fraction of the vial's in-plane equivalent radius from its centre (edge voxels carry partial volume).</param>
@@ -59,7 +59,7 @@ public static class DwiPhantomCheck
         options ??= new DwiPhantomOptions();
         if (!(options.TolerancePercent > 0) || !(options.ReferenceAdcUm2PerS > 0))
             throw new InvalidParameterException("tolerance and reference ADC must be positive", "DWI phantom options");
-        var fit = AdcFitter.Fit(dwi, null, options.Fit);
+        var fit = AdcFitter.Fit(dwi, null, options.Fit ?? new AdcFitOptions(MinBValue: 0));
         var lowest = dwi.MinBy(d => d.BValue)!.Image;
         rois ??= VialFinder.Find(lowest, options);
         rois.Geometry.RequireCongruent(fit.AdcUm2PerS.Geometry, "phantom ROI mask and DWI images");

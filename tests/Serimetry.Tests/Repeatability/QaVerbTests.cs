@@ -91,4 +91,29 @@ public sealed class QaDwiPhantomVerbTests : IDisposable
         code = CliHost.Run(["qa", "dwi-phantom", "--temperature", "20", .. WritePhantom(2020)], new StringWriter(), new StringWriter());
         Assert.Equal(0, code);
     }
+
+    [Fact]
+    public void RepeatedExamsReportRepeatability()
+    {
+        var args = new List<string> { "qa", "dwi-phantom" };
+        for (int scan = 0; scan < 2; scan++)
+        {
+            var dir = Path.Combine(_dir, $"scan{scan}");
+            Directory.CreateDirectory(dir);
+            var dwi = Serimetry.Engine.Phantoms.IceWaterPhantom.Generate(new Serimetry.Engine.Core.Size3(40, 40, 2),
+                new Serimetry.Engine.Core.Vec3(1.5, 1.5, 4), [0, 500, 900], 60, 20 + scan);
+            var entries = new List<string>();
+            foreach (var d in dwi)
+            {
+                Serimetry.Engine.Io.Nifti.NiftiFile.Write(Path.Combine(dir, $"b{d.BValue}.nii.gz"), d.Image);
+                entries.Add($"\"{d.BValue}\": \"b{d.BValue}.nii.gz\"");
+            }
+            File.WriteAllText(Path.Combine(dir, "exam.json"),
+                $"{{\"patientId\": \"PH\", \"date\": \"2026-12-01\", \"series\": {{\"dwi\": {{{string.Join(",", entries)}}}}}}}");
+            args.AddRange(["--exam", dir]);
+        }
+        var o = new StringWriter();
+        Assert.Equal(0, CliHost.Run([.. args], o, new StringWriter()));
+        Assert.Contains("repeatability over 2 scans", o.ToString());
+    }
 }
