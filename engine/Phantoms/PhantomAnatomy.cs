@@ -99,14 +99,14 @@ internal sealed class PhantomAnatomy
         return x * x + y * y + z * z <= 1;
     }
 
-    /// <summary>Whether a sphere of the given radius around the lesion centre lies inside the gland and outside the TZ (checked on 2562 surface points).</summary>
-    internal bool LesionFitsInPeripheralZone(double radiusMm)
+    /// <summary>Whether a sphere of the given radius around the lesion centre lies inside the gland (checked on 2562 surface points); a grown lesion may cross into the TZ.</summary>
+    internal bool LesionFitsInGland(double radiusMm)
     {
         for (int i = 0; i < 2562; i++)
         {
             double z = 1 - 2.0 * (i + 0.5) / 2562, r = Math.Sqrt(1 - z * z), phi = i * Math.PI * (3 - Math.Sqrt(5));
             var p = _lesionCentre + new Vec3(r * Math.Cos(phi), r * Math.Sin(phi), z) * radiusMm;
-            if (!InGland(p) || InTransitionZone(p)) return false;
+            if (!InGland(p)) return false;
         }
         return true;
     }

@@ -21,9 +21,9 @@ public static class PhantomGenerator
         spec.Validate();
         var transforms = TrueTransforms(spec);
         double maxRadius = LesionRadius(spec, spec.Visits - 1);
-        if (!new PhantomAnatomy(spec, maxRadius).LesionFitsInPeripheralZone(Math.Max(maxRadius, spec.LesionRadiusMm)))
+        if (!new PhantomAnatomy(spec, maxRadius).LesionFitsInGland(Math.Max(maxRadius, spec.LesionRadiusMm)))
             throw new InvalidParameterException(
-                $"the lesion (radius up to {Math.Max(maxRadius, spec.LesionRadiusMm):F1} mm) leaves the peripheral zone", "phantom spec",
+                $"the lesion (radius up to {Math.Max(maxRadius, spec.LesionRadiusMm):F1} mm) leaves the gland", "phantom spec",
                 "reduce lesionRadiusMm, growthPerVisit or visits, or move lesionOffsetMm");
         var visits = new List<PhantomVisit>();
         for (int k = 0; k < spec.Visits; k++) visits.Add(GenerateVisit(spec, k, transforms[k], maxDegreeOfParallelism));

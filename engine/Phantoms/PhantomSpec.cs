@@ -56,7 +56,7 @@ public sealed record PhantomSpec
     public double LesionRadiusMm { get; init; } = 5.5;
 
     /// <summary>Lesion centre relative to the gland centre (mm, LPS): posterior left peripheral zone by default.</summary>
-    public double[] LesionOffsetMm { get; init; } = [12, 6, -3];
+    public double[] LesionOffsetMm { get; init; } = [11, 5, -3];
     public double[] PsaNgPerMl { get; init; } = [5.1, 5.8, 6.9];
     public double BiasFieldAmplitude { get; init; } = 0.15;
     public double TextureAmplitude { get; init; } = 0.05;
