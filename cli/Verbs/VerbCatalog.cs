@@ -5,5 +5,9 @@ internal static class VerbCatalog
 {
     public static IReadOnlyList<IVerb> All { get; } =
     [
+        new CompareVerb(),
+        new PhantomVerb(),
+        new QaVerb(),
+        new QaAdcVerb(),
     ];
 }

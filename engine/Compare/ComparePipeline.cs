@@ -107,7 +107,7 @@ public static class ComparePipeline
     }
 
     private static VisitImages Align(int index, LoadedExam loaded, Exam baseline, Volume<byte> gland0, Volume<byte>? lesion0,
-        CompareOptions options, List<string> problems)
+        ComparisonOptions options, List<string> problems)
     {
         var exam = loaded.Exam;
         var flags = new List<string>();
@@ -141,7 +141,7 @@ public static class ComparePipeline
         return new VisitImages(index, exam, adcOnT2w, within, toBaseline, gland, lesion, null, flags);
     }
 
-    private static RegistrationResult? WithinExam(Exam exam, CompareOptions options, List<string> flags)
+    private static RegistrationResult? WithinExam(Exam exam, ComparisonOptions options, List<string> flags)
     {
         if (options.WithinExamPreset is null) return null;
         try
@@ -212,7 +212,7 @@ public static class ComparePipeline
         return new LesionRefitRecord(agreement.Dice, agreement.CentroidShiftMm, l.Note is null ? [] : [l.Note]);
     }
 
-    private static Dictionary<string, string> Settings(CompareOptions o) => new()
+    private static Dictionary<string, string> Settings(ComparisonOptions o) => new()
     {
         ["registration.followup"] = o.FollowupPreset,
         ["registration.withinExam"] = o.WithinExamPreset ?? "none (scanner geometry)",

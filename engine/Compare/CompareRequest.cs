@@ -18,7 +18,7 @@ public sealed record CompareRequest(
     string? LesionMask,
     IReadOnlyList<PsaSample> Psa,
     RepeatabilityProfile Profile,
-    CompareOptions Options);
+    ComparisonOptions Options);
 
 /// <summary>Processing options of a comparison, recorded in change.json.</summary>
 /// <param name="AllowDifferentPatients">Compare exams whose patient IDs differ (refused by default).</param>
@@ -26,7 +26,7 @@ public sealed record CompareRequest(
 /// <param name="WithinExamPreset">Registration preset for ADC → T2w inside each exam, or null to trust the scanner geometry.</param>
 /// <param name="Refit">Lesion re-fit settings.</param>
 /// <param name="MaxThreads">Threads for parallel loops (-1: all cores).</param>
-public sealed record CompareOptions(
+public sealed record ComparisonOptions(
     bool AllowDifferentPatients = false,
     string FollowupPreset = "rigid",
     string? WithinExamPreset = "within-exam",

@@ -1,0 +1,77 @@
+using Serimetry.Engine.Core;
+using Serimetry.Engine.Repeatability;
+
+namespace Serimetry.Engine.Phantoms;
+
+/// <summary>How often pairs of re-acquisitions without true change were flagged as change.</summary>
+/// <param name="Measure">Measure id.</param>
+/// <param name="Pairs">Pairs of repeats compared (R·(R−1)/2).</param>
+/// <param name="ExceedingProfile">Pairs whose difference exceeds the profile's 95 % band.</param>
+/// <param name="RateProfile">ExceedingProfile / Pairs; null when the profile has no entry.</param>
+/// <param name="ProfileSource">Source of the profile entry used.</param>
+/// <param name="ExceedingOwnRc">Pairs whose |difference| exceeds this run's own RC.</param>
+/// <param name="RateOwnRc">ExceedingOwnRc / Pairs (about 0.05 by construction for normal errors).</param>
+public sealed record FalsePositiveRate(string Measure, int Pairs, int ExceedingProfile, double? RateProfile, string? ProfileSource,
+    int ExceedingOwnRc, double RateOwnRc);
+
+/// <summary>Result of a phantom QA run.</summary>
+/// <param name="Repeats">Re-acquisitions made.</param>
+/// <param name="Observations">Measured values (subject = phantom subject id, repeat = "r1", "r2" …).</param>
+/// <param name="Statistics">wSD, wCV, RC per measure over the repeats (ICCs are undefined with one phantom).</param>
+/// <param name="FalsePositiveRates">Change-exceeds-noise rate among pairs without true change.</param>
+/// <param name="ProfileName">Profile the rates were judged against.</param>
+public sealed record PhantomReproducibilityReport(int Repeats, IReadOnlyList<RepeatabilityObservation> Observations,
+    TestRetestReport Statistics, IReadOnlyList<FalsePositiveRate> FalsePositiveRates, string ProfileName);
+
+/// <summary>
+/// Phantom QA run: R noisy re-acquisitions of one phantom (same anatomy and position, only the noise seed
+/// differs, so there is no true change), the phantom QA measures on each, their repeatability, and the rate at
+/// which "change exceeds noise" would be flagged between re-acquisitions — the engine's own noise floor.
+/// </summary>
+public static class PhantomReproducibility
+{
+    /// <summary>Runs the QA; <paramref name="progress"/> is told after each repeat.</summary>
+    public static PhantomReproducibilityReport Run(PhantomSpec spec, int repeats, RepeatabilityProfile? profile = null,
+        Action<int>? progress = null, int maxDegreeOfParallelism = -1)
+    {
+        ArgumentNullException.ThrowIfNull(spec);
+        if (repeats is < 2 or > 1000)
+            throw new InvalidParameterException($"repeats must be 2-1000, got {repeats}", "--repeats", "repeatability needs at least two re-acquisitions");
+        profile ??= RepeatabilityProfile.LoadDefault();
+        var single = spec with { Visits = 1, PsaNgPerMl = spec.PsaNgPerMl.Take(1).ToArray() };
+        var rows = new List<RepeatabilityObservation>();
+        for (int r = 0; r < repeats; r++)
+        {
+            var visit = PhantomGenerator.Generate(single with { NoiseSeed = unchecked((spec.NoiseSeed ?? spec.Seed) + 1000 * (r + 1)) },
+                maxDegreeOfParallelism).Visits[0];
+            foreach (var (m, v) in PhantomQaMeasures.Measure(visit)) rows.Add(new RepeatabilityObservation(spec.SubjectId, m, $"r{r + 1}", v));
+            progress?.Invoke(r + 1);
+        }
+        var stats = TestRetestAnalysis.Analyse(rows);
+        var rates = stats.Measures.Select(m => Rate(m, rows.Where(x => x.Measure == m.Measure).Select(x => x.Value).ToArray(), profile)).ToList();
+        return new PhantomReproducibilityReport(repeats, rows, stats, rates, profile.Name);
+    }
+
+    private static FalsePositiveRate Rate(MeasureRepeatability m, double[] values, RepeatabilityProfile profile)
+    {
+        var entry = profile.Find(m.Measure);
+        int pairs = 0, overProfile = 0, overOwn = 0;
+        for (int i = 0; i < values.Length; i++)
+            for (int j = i + 1; j < values.Length; j++)
+            {
+                pairs++;
+                if (Math.Abs(values[j] - values[i]) > m.Rc) overOwn++;
+                if (entry is not null && Exceeds(entry, values[i], values[j])) overProfile++;
+            }
+        return new FalsePositiveRate(m.Measure, pairs, overProfile, entry is null ? null : (double)overProfile / pairs, entry?.Source,
+            overOwn, (double)overOwn / pairs);
+    }
+
+    /// <summary>Log scale: |ln(b/a)| &gt; 1.96·√2·σL; absolute scale: |b − a| &gt; 1.96·√2·wSD (facts.md §1).</summary>
+    internal static bool Exceeds(RepeatabilityEntry e, double a, double b)
+    {
+        if (e.Scale == ErrorScale.Log && e.SdLog is double s && a > 0 && b > 0)
+            return Math.Abs(Math.Log(b / a)) > TestRetestAnalysis.RcFactor * s;
+        return e.RepeatabilityCoefficient is double rc && Math.Abs(b - a) > rc;
+    }
+}
