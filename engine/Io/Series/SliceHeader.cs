@@ -22,7 +22,7 @@ public sealed record SliceSource(string Container, string? Entry = null, int Fra
 /// names and tags follow DICOM PS3.3 (General Series, Image Plane C.7.6.2, Image Pixel C.7.6.3,
 /// MR Image C.8.3.1, Diffusion macro C.8.13.5.9). Null means absent.
 /// </summary>
-public sealed record SliceHeader
+public sealed partial record SliceHeader
 {
     public required SliceSource Source { get; init; }
 
