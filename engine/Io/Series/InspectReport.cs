@@ -37,6 +37,11 @@ public sealed record InspectReport(
         return new InspectReport(studies, skipped, index.FilesSeen, SoftwareInfo.Caution);
     }
 
+    /// <summary>Builds the report from summaries made by another reader (e.g. a NIfTI file).</summary>
+    public static InspectReport FromSummaries(IReadOnlyList<StudySummary> studies) =>
+        new(studies.Select(st => new InspectStudy(st.StudyInstanceUid, st.PatientId, st.StudyDate,
+            st.Series.Select(InspectSeries.FromSummary).ToList(), [])).ToList(), [], studies.Count, SoftwareInfo.Caution);
+
     private static string Relative(string root, string where) =>
         Directory.Exists(root) && where.StartsWith(root, StringComparison.Ordinal) ? Path.GetRelativePath(root, where) : where;
 
@@ -105,14 +110,31 @@ public sealed record InspectSeries(
         var m = s.Summary;
         var a = m.Acquisition;
         return new InspectSeries(m.SeriesInstanceUid, InspectReport.RoleName(m.Role), m.Size.ToArray(), Finite(m.SpacingMm),
-            Finite(m.OriginMm), m.Direction.ToRowMajor(), m.BValues, s.SeriesNumber, a.SeriesDescription, a.Modality,
+            Finite(m.OriginMm), Clean(m.Direction.ToRowMajor()), m.BValues, s.SeriesNumber, a.SeriesDescription, a.Modality,
             s.Role.Reason, s.Role.IsComputed, a.FieldStrengthT, a.Manufacturer, a.Model, a.RepetitionTimeMs, a.EchoTimeMs,
             a.SliceThicknessMm, s.NumberOfFiles, m.Source, s.Stacks.Select(InspectStack.From).ToList(), m.Warnings);
     }
 
+    /// <summary>A series known only by its summary (no stacks, no files).</summary>
+    public static InspectSeries FromSummary(SeriesSummary m)
+    {
+        var a = m.Acquisition;
+        return new InspectSeries(m.SeriesInstanceUid, InspectReport.RoleName(m.Role), m.Size.ToArray(), Finite(m.SpacingMm),
+            Finite(m.OriginMm), Clean(m.Direction.ToRowMajor()), m.BValues, null, a.SeriesDescription, a.Modality, "from the file's header",
+            false, a.FieldStrengthT, a.Manufacturer, a.Model, a.RepetitionTimeMs, a.EchoTimeMs, a.SliceThicknessMm, 1, m.Source,
+            [], m.Warnings);
+    }
+
     internal static double?[] Finite(Vec3 v) => [F(v.X), F(v.Y), F(v.Z)];
 
-    private static double? F(double x) => double.IsFinite(x) ? x : null;
+    private static double? F(double x) => double.IsFinite(x) ? x + 0.0 : null;
+
+    /// <summary>Writes negative zero as 0 (cosines of exactly 0 come out of cross products as -0).</summary>
+    private static double[] Clean(double[] v)
+    {
+        for (int i = 0; i < v.Length; i++) v[i] += 0.0;
+        return v;
+    }
 }
 
 /// <summary>One stack of a series (orientation / b-value / grid).</summary>
