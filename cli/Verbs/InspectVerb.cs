@@ -91,12 +91,12 @@ internal sealed class InspectVerb : IVerb
     {
         w.WriteLine($"Study {study.StudyInstanceUid ?? "(no UID)"}  date {FormatDate(study.StudyDate)}  {study.Series.Count} series");
         foreach (var x in study.Warnings) w.WriteLine($"  ! {x}");
-        w.WriteLine($"  {"#",4}  {"role",-5}  {"size",-12}  {"spacing mm",-18}  {"b-values",-16}  {"files",5}  description");
+        w.WriteLine($"  {"#",4}  {"role",-5}  {"size",-12}  {"spacing mm",-20}  {"b-values",-16}  {"files",5}  description");
         foreach (var s in study.Series)
         {
             var b = s.BValues.Count == 0 ? "-" : string.Join(",", s.BValues.Select(v => v.ToString("G6", CultureInfo.InvariantCulture)));
             w.WriteLine($"  {s.SeriesNumber?.ToString(CultureInfo.InvariantCulture) ?? "-",4}  {s.Role,-5}  {string.Join("x", s.Size),-12}  " +
-                        $"{Spacing(s.Spacing),-18}  {b,-16}  {s.NumberOfFiles,5}  {s.SeriesDescription ?? ""}");
+                        $"{Spacing(s.Spacing),-20}  {b,-16}  {s.NumberOfFiles,5}  {s.SeriesDescription ?? ""}");
             foreach (var x in s.Warnings) w.WriteLine($"        ! {x}");
         }
         w.WriteLine();

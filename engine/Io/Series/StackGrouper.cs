@@ -37,10 +37,11 @@ internal static class StackGrouper
         orientationCount = Math.Max(1, orientations.Count);
         var sortedKeys = order.Select((k, i) => (k, i))
             .OrderBy(t => t.k.Orientation).ThenBy(t => t.k.BValue ?? -1).ThenBy(t => t.i).Select(t => t.k);
+        bool severalTypes = order.Select(k => k.ImageType).Distinct().Count() > 1;
         var stacks = new List<SliceStack>();
         foreach (var key in sortedKeys)
             foreach (var (part, extra) in SplitRepeats(groups[key], tol))
-                stacks.Add(StackGeometry.Evaluate(part, Label(key, extra, orientations.Count), key.BValue, bSources[key], tol));
+                stacks.Add(StackGeometry.Evaluate(part, Label(key, extra, orientations.Count, severalTypes), key.BValue, bSources[key], tol));
         return stacks;
     }
 
@@ -93,10 +94,11 @@ internal static class StackGrouper
         return false;
     }
 
-    private static string Label(Key key, string extra, int orientationCount)
+    private static string Label(Key key, string extra, int orientationCount, bool severalTypes)
     {
         var parts = new List<string>();
         if (orientationCount > 1) parts.Add($"orientation {key.Orientation + 1}");
+        if (severalTypes) parts.Add($"Image Type {key.ImageType}");
         if (key.BValue is { } b) parts.Add(string.Format(Inv, "b={0:G6}", b));
         if (key.Gradient.Length > 0) parts.Add($"gradient {key.Gradient}");
         if (extra.Length > 0) parts.Add(extra);
