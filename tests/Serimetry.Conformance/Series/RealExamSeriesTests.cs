@@ -100,4 +100,30 @@ public class RealExamSeriesTests
         Assert.All(dwi.MainStacks, s => Assert.Equal(BValueRules.SiemensSource, s.BValueSource));
         Assert.Equal(80, dwi.Stacks.Sum(s => s.Slices.Count));
     }
+
+    // Src: shared/reference/mr/README.md — scanner ADC ranges (dcmtk reading): 0–3265, 0–3851, 0–4032 (10^-6 mm²/s).
+    [Theory]
+    [InlineData("ProstateX-0000", 3265)]
+    [InlineData("ProstateX-0001", 3851)]
+    [InlineData("ProstateX-0218", 4032)]
+    public void AdcVolumeHasTheDocumentedRange(string name, float max)
+    {
+        var adc = Case(name)[0].Series.Single(s => s.Summary.Role == SeriesRole.Adc);
+        var v = StackVolumeBuilder.Build(adc);
+        Assert.Equal(adc.Summary.Size, v.Size);
+        Assert.Equal(0f, v.Voxels.Min());
+        Assert.Equal(max, v.Voxels.Max());
+    }
+
+    [Fact]
+    public void EachBValueOfAMultiBSeriesBuildsItsOwnVolume()
+    {
+        var dwi = Case("ProstateX-0218")[0].Series.Single(s => s.Summary.BValues.Count == 4);
+        var b0 = StackVolumeBuilder.Build(dwi, 0);
+        var b800 = StackVolumeBuilder.Build(dwi, 800);
+        Assert.True(b0.Geometry.IsCongruentWith(b800.Geometry));
+        // Diffusion weighting attenuates the signal: the b=800 image is darker overall than b=0.
+        Assert.True(b800.Voxels.Average() < b0.Voxels.Average());
+        Assert.Throws<InvalidParameterException>(() => StackVolumeBuilder.Build(dwi, 1234));
+    }
 }
