@@ -63,9 +63,9 @@ internal sealed partial class DicomParser(ReadOnlyMemory<byte> buffer, DicomRead
                 log.Lenient($"an item of undefined length lacks its Item Delimitation Item (data end at byte {_pos})");
                 return;
             }
-            if (depth == 0 && end - _pos < 8 && !isPrefix)
+            if (depth == 0 && end - _pos < 8 && !isPrefix && !Span[_pos..end].ContainsAnyExcept((byte)0))
             {
-                log.Lenient($"{end - _pos} trailing byte(s) after the last element ignored");
+                log.Lenient($"{end - _pos} trailing zero byte(s) after the last element ignored");
                 _pos = end;
                 return;
             }
