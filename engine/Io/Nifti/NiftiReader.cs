@@ -93,6 +93,7 @@ internal static class NiftiReader
             throw new InputLimitException(
                 $"the decompressed stream continues more than {TrailingSlackBytes:N0} bytes beyond the {src.Position - extra:N0} bytes its header declares",
                 src.Where, "the file is not a consistent NIfTI dataset (possibly a decompression bomb); it was not loaded");
+        src.CheckGzipTrailer();
         if (extra > 0)
             warnings.Add(string.Create(CultureInfo.InvariantCulture, $"{extra} bytes after the declared voxel data were ignored"));
     }

@@ -1,3 +1,4 @@
+using System.Buffers.Binary;
 using System.IO.Compression;
 using Serimetry.Engine.Core;
 
@@ -114,6 +115,26 @@ internal sealed class NiftiSource : IDisposable
             total += n;
         }
         return total;
+    }
+
+    /// <summary>
+    /// For a gzip file read to its end: checks the trailer's ISIZE (decompressed length mod 2^32, RFC 1952 §2.3.1)
+    /// against the bytes decompressed. A stream cut inside its last block or trailer can decompress without an
+    /// error; this check catches it. Multi-member (block) gzip files are refused by it too.
+    /// </summary>
+    public void CheckGzipTrailer()
+    {
+        if (!IsCompressed) return;
+        Span<byte> trailer = stackalloc byte[4];
+        if (_file.Length >= 18)
+        {
+            _file.Seek(-4, SeekOrigin.End);
+            _file.ReadExactly(trailer);
+            if (BinaryPrimitives.ReadUInt32LittleEndian(trailer) == (uint)Position) return;
+        }
+        throw new InputFormatException(
+            $"the gzip stream is truncated or damaged: its trailer does not record the {Position:N0} bytes that were decompressed",
+            Where, "copy or export the file again (multi-member gzip files must be recompressed with plain gzip)");
     }
 
     public void Dispose()
