@@ -44,7 +44,12 @@ internal sealed class InspectVerb : IVerb
         }
         var options = new StudyIndexOptions(MaxDegreeOfParallelism: args.GetInt("threads", -1, -1, 256));
         var index = StudyIndex.Build(path, DicomSliceHeaderReader.Default, options);
-        Print(InspectReport.From(index, overrides), json, ctx);
+        var report = InspectReport.From(index, overrides);
+        var known = report.Studies.SelectMany(s => s.Series).Select(s => s.SeriesInstanceUid).ToHashSet(StringComparer.Ordinal);
+        foreach (var uid in overrides.Keys.Where(k => !known.Contains(k)))
+            throw new InvalidParameterException($"--role names series {uid}, which is not under PATH", "--role",
+                "copy the seriesInstanceUid from 'serimetry inspect PATH --json'");
+        Print(report, json, ctx);
         return CliHost.ExitOk;
     }
 

@@ -39,9 +39,10 @@ public static class SeriesAssembler
     private static string PlaceholderUid(SliceHeader s) =>
         "(no Series Instance UID) " + (s.Source.Entry is { } e ? Path.GetDirectoryName(e) : Path.GetDirectoryName(s.Source.Container));
 
-    internal static AssembledSeries AssembleSeries(string uid, IReadOnlyList<SliceHeader> slices, SeriesAssemblyOptions options,
+    internal static AssembledSeries AssembleSeries(string uid, IReadOnlyList<SliceHeader> all, SeriesAssemblyOptions options,
         StackTolerances tol)
     {
+        var slices = WithoutCopies(all, out int copies);
         var stacks = StackGrouper.Group(slices, tol, out int orientationCount);
         var decision = RoleRules.Classify(slices);
         bool overridden = false;
@@ -52,9 +53,32 @@ public static class SeriesAssembler
         }
         var main = MainStacks(stacks);
         var warnings = SeriesWarnings(slices, stacks, main, orientationCount, decision.Role);
+        if (copies > 0)
+            warnings.Insert(0, $"{copies} file(s) repeat an image already read (same SOP Instance UID and frame) and were ignored");
         var summary = Summarise(uid, slices, main, decision.Role, warnings, options.RootPath);
         int files = slices.Select(s => (s.Source.Container, s.Source.Entry)).Distinct().Count();
         return new AssembledSeries(uid, slices[0].SeriesNumber, decision, overridden, stacks, summary, files) { MainStacks = main };
+    }
+
+    /// <summary>
+    /// Drops second copies of the same image (same SOP Instance UID and frame), e.g. a folder that holds both
+    /// the files and a zip of them; the first in path order is kept.
+    /// </summary>
+    private static List<SliceHeader> WithoutCopies(IReadOnlyList<SliceHeader> slices, out int copies)
+    {
+        var seen = new HashSet<(string, int)>();
+        var kept = new List<SliceHeader>(slices.Count);
+        copies = 0;
+        foreach (var s in slices)
+        {
+            if (s.SopInstanceUid is { } uid && !seen.Add((uid, s.Source.Frame)))
+            {
+                copies++;
+                continue;
+            }
+            kept.Add(s);
+        }
+        return kept;
     }
 
     /// <summary>The stacks in the orientation holding the most slices, ordered by b-value.</summary>

@@ -67,6 +67,7 @@ public sealed class InspectVerbTests : IDisposable
         Assert.Equal(0, code);
         Assert.Equal("adc", JsonDocument.Parse(output).RootElement.GetProperty("studies")[0].GetProperty("series")[0].GetProperty("role").GetString());
         Assert.Equal(2, Run("inspect", folder, "--role", "nonsense").Code);
+        Assert.Equal(3, Run("inspect", folder, "--role", "1.2.3.4=t2w").Code);
     }
 
     [Fact]

@@ -174,4 +174,15 @@ public class StackAssemblyTests
         Assert.Equal(sa, sb);
         Assert.Equal(["1.2.3.4", "1.2.3.5"], sa);
     }
+
+    [Fact]
+    public void SecondCopiesOfTheSameInstanceAreIgnoredWithAWarning()
+    {
+        var slices = SyntheticSlices.Oblique();
+        slices.Add(slices[3] with { Source = new SliceSource("/data/archive.zip", "IM0007.dcm") });
+        var s = One(slices);
+        Assert.True(s.MainStacks[0].IsRegular);
+        Assert.Equal(10, s.MainStacks[0].Slices.Count);
+        Assert.Contains(s.Summary.Warnings, w => w.Contains("1 file(s) repeat an image"));
+    }
 }

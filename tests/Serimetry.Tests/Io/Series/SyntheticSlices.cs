@@ -6,6 +6,8 @@ namespace Serimetry.Tests.Io.Series;
 /// <summary>Builds slice headers of a known stack, so assembly can be checked against the truth it was built from.</summary>
 internal static class SyntheticSlices
 {
+    private static int _next;
+
     /// <summary>
     /// The oblique geometry of the reference series (README "Synthetic oblique series"): row r = (1,0,0),
     /// column c = (0, cos 15°, sin 15°), origin (-32,-30,12.5), spacing (0.8, 0.9, 2.5), 80 x 64 x 10.
@@ -26,7 +28,7 @@ internal static class SyntheticSlices
             list.Add(new SliceHeader
             {
                 Source = new SliceSource($"/data/{series}/IM{instance:D4}.dcm"),
-                SopInstanceUid = $"{series}.{instance}",
+                SopInstanceUid = $"{series}.{Interlocked.Increment(ref _next)}",
                 SeriesInstanceUid = series,
                 StudyInstanceUid = "1.2.3",
                 PatientId = "NSC-0007",
