@@ -78,7 +78,26 @@ internal sealed class ZipReader : IDisposable
     }
 
     /// <summary>Inflates one entry, reading at most its declared size (a longer stream is an error).</summary>
-    public byte[] ReadEntry(ZipArchiveEntry e)
+    public byte[] ReadEntry(ZipArchiveEntry e) => Guard(e, () => ReadEntryCore(e));
+
+    /// <summary>Reads the first bytes of an entry for a quick format check.</summary>
+    public byte[] ReadHead(ZipArchiveEntry e, int count) => Guard(e, () => ReadHeadCore(e, count));
+
+    /// <summary>Corrupt compressed data surfaces as <see cref="InvalidDataException"/>; report it as bad input.</summary>
+    private T Guard<T>(ZipArchiveEntry e, Func<T> read)
+    {
+        try
+        {
+            return read();
+        }
+        catch (InvalidDataException ex)
+        {
+            throw new InputFormatException($"zip entry '{e.FullName}' is corrupt: {ex.Message}", _path,
+                "re-create the archive, or index the unpacked folder", ex);
+        }
+    }
+
+    private byte[] ReadEntryCore(ZipArchiveEntry e)
     {
         var buffer = new byte[e.Length];
         using var s = e.Open();
@@ -97,8 +116,7 @@ internal sealed class ZipReader : IDisposable
         return buffer;
     }
 
-    /// <summary>Reads the first bytes of an entry for a quick format check.</summary>
-    public byte[] ReadHead(ZipArchiveEntry e, int count)
+    private static byte[] ReadHeadCore(ZipArchiveEntry e, int count)
     {
         var buffer = new byte[(int)Math.Min(count, e.Length)];
         using var s = e.Open();

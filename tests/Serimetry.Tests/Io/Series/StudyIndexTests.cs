@@ -17,12 +17,14 @@ public sealed class StudyIndexTests : IDisposable
     private sealed class FakeReader : ISliceHeaderReader
     {
         public int Calls;
+        public int LargestInput;
 
         public SliceReadResult ReadFile(string path) => ReadBytes(File.ReadAllBytes(path), new SliceSource(path));
 
         public SliceReadResult ReadBytes(byte[] bytes, SliceSource source)
         {
             Interlocked.Increment(ref Calls);
+            lock (this) LargestInput = Math.Max(LargestInput, bytes.Length);
             var text = Encoding.ASCII.GetString(bytes, 132, bytes.Length - 132);
             if (text == "no-image") return SliceReadResult.Skip("no image");
             return new SliceReadResult([new SliceHeader { Source = source, SeriesInstanceUid = text }], null);
@@ -168,5 +170,40 @@ public sealed class StudyIndexTests : IDisposable
             for (int i = 0; i < 10; i++) a.CreateEntry($"e{i}");
         Assert.Throws<InputLimitException>(() => StudyIndex.Build(_dir, new FakeReader(),
             new StudyIndexOptions(Zip: new ZipLimits(MaxEntries: 5), MaxDegreeOfParallelism: 4)));
+    }
+
+    [Fact]
+    public void EntryIsNeverInflatedBeyondItsDeclaredSize()
+    {
+        // A forged archive: 2 MiB of zeros whose local and central headers claim 1000 bytes uncompressed.
+        var zip = Path.Combine(_dir, "forged.zip");
+        using (var a = ZipFile.Open(zip, ZipArchiveMode.Create))
+        {
+            using var s = a.CreateEntry("slice.dcm", CompressionLevel.SmallestSize).Open();
+            s.Write(FakeDicom(new string('0', 2 << 20)));
+        }
+        var bytes = File.ReadAllBytes(zip);
+        Patch(bytes, [0x50, 0x4B, 0x03, 0x04], 22);
+        Patch(bytes, [0x50, 0x4B, 0x01, 0x02], 24);
+        File.WriteAllBytes(zip, bytes);
+        var reader = new FakeReader();
+        try
+        {
+            StudyIndex.Build(zip, reader);
+        }
+        catch (InputException e)
+        {
+            Assert.True(e is InputLimitException or InputFormatException, e.GetType().Name);
+        }
+        // Refused, or cut at the declared 1000 bytes: never the 2 MiB the forged entry really holds.
+        Assert.InRange(reader.LargestInput, 0, 1000);
+    }
+
+    /// <summary>Writes 1000 as the uncompressed size at <paramref name="offset"/> after the first record with this signature.</summary>
+    private static void Patch(byte[] bytes, byte[] signature, int offset)
+    {
+        int at = bytes.AsSpan().IndexOf(signature);
+        Assert.True(at >= 0);
+        BitConverter.TryWriteBytes(bytes.AsSpan(at + offset, 4), 1000u);
     }
 }
