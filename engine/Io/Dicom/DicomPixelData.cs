@@ -75,8 +75,16 @@ public sealed partial class DicomPixelData
     {
         if (destination.Length < Info.SamplesPerFrame)
             throw new ArgumentException($"destination holds {destination.Length} values; {Info.SamplesPerFrame} needed", nameof(destination));
-        var bytes = GetFrameBytes(frame);
-        DicomStoredValues.Extract(bytes, Info, destination[..(int)Info.SamplesPerFrame]);
+        CheckFrame(frame);
+        var dest = destination[..(int)Info.SamplesPerFrame];
+        if (!IsEncapsulated && !BigEndian && Info.BitsAllocated != 1)
+        {
+            // Little-endian native frames are read in place, without a copy.
+            var len = (int)Info.FrameBytes;
+            DicomStoredValues.Extract(_native.Span.Slice(checked(frame * len), len), Info, dest);
+            return;
+        }
+        DicomStoredValues.Extract(GetFrameBytes(frame), Info, dest);
     }
 
     /// <summary>Rescaled values (stored × Rescale Slope + Rescale Intercept, PS3.3 C.11.1.1.2), per-frame functional groups honoured.</summary>
@@ -117,9 +125,14 @@ public sealed partial class DicomPixelData
     {
         if (Info.BitsAllocated == 1) return OneBitFrame(frame);
         var len = (int)Info.FrameBytes;
-        var bytes = _native.Span.Slice(checked(frame * len), len).ToArray();
-        if (BigEndian) SwapToLittleEndian(bytes);
-        return bytes;
+        var start = checked(frame * len);
+        if (!BigEndian) return _native.Span.Slice(start, len).ToArray();
+        // Swap whole 16-bit words: an odd-sized 8-bit frame shares its last word with the next frame or the pad byte.
+        var first = start & ~1;
+        var end = Math.Min(_native.Length, (start + len + 1) & ~1);
+        var words = _native.Span[first..end].ToArray();
+        SwapToLittleEndian(words);
+        return words.AsSpan(start - first, len).ToArray();
     }
 
     /// <summary>
