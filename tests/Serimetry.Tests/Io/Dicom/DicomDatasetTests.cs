@@ -114,15 +114,18 @@ public sealed class DicomDatasetTests
     public void Stored_values_mask_high_bits_and_sign_extend()
     {
         // Src: PS3.5 8.1.1 and annex D (Bits Stored 12, High Bit 11; bits above High Bit are not part of the value).
-        ushort[] raw = [0xF800, 0x07FF, 0x0FFF, 0xA123];
+        // 4x4 pixels so that both the vectorised path (8 at a time) and the scalar tail are exercised.
+        ushort[] pattern = [0xF800, 0x07FF, 0x0FFF, 0xA123, 0x0000, 0x8800, 0x1001, 0x0FFE];
+        ushort[] raw = [.. pattern, .. pattern[..7], 0xF800];
         var bytes = DicomBytes.Part10().US(0x0028, 0x0002, 1).Text(0x0028, 0x0004, "CS", "MONOCHROME2")
-            .US(0x0028, 0x0010, 2).US(0x0028, 0x0011, 2)
+            .US(0x0028, 0x0010, 4).US(0x0028, 0x0011, 4)
             .US(0x0028, 0x0100, 16).US(0x0028, 0x0101, 12).US(0x0028, 0x0102, 11).US(0x0028, 0x0103, 1)
             .Text(0x0028, 0x1052, "DS", "-10").Text(0x0028, 0x1053, "DS", "2")
             .Element(0x7FE0, 0x0010, "OW", raw.SelectMany(BitConverter.GetBytes).ToArray()).ToArray();
         var px = DicomFile.Read(bytes.AsMemory()).GetPixelData();
-        Assert.Equal([-2048, 2047, -1, 0x123], px.GetStoredValues(0));
-        Assert.Equal([-4106f, 4084f, -12f, 572f], px.GetRescaledValues(0));
+        int[] expected = [-2048, 2047, -1, 0x123, 0, -2048, 1, -2];
+        Assert.Equal([.. expected, .. expected[..7], -2048], px.GetStoredValues(0));
+        Assert.Equal([-4106f, 4084f, -12f, 572f], px.GetRescaledValues(0)[..4]);
     }
 
     [Fact]
