@@ -59,7 +59,17 @@ public sealed partial class DicomPixelData
     public byte[] GetFrameBytes(int frame)
     {
         CheckFrame(frame);
-        return IsEncapsulated ? DecodeFrame(frame) : NativeFrame(frame);
+        if (!IsEncapsulated) return NativeFrame(frame);
+        try
+        {
+            return DecodeFrame(frame);
+        }
+        catch (Exception ex) when (ex is ArgumentException or IndexOutOfRangeException or OverflowException or InvalidDataException)
+        {
+            // Decoders must raise InputFormatException themselves; this keeps the contract if one does not.
+            throw new InputFormatException($"frame {frame + 1} cannot be decoded ({TransferSyntax.Name}): {ex.Message}",
+                _log.Source, "the compressed data is corrupt; obtain an uncompressed copy (`gdcmconv --raw in.dcm out.dcm`)", ex);
+        }
     }
 
     /// <summary>Stored values of a frame (all samples, in stored order). 32-bit unsigned values are returned as their bit pattern.</summary>
