@@ -81,10 +81,10 @@ public sealed class DicomDataset
     public string[] GetStrings(DicomTag tag) => DicomValueConverter.Texts(Get(tag), this);
 
     /// <summary>Value number <paramref name="index"/> as an integer (IS, US, SS, UL, SL, SV, UV, AT …).</summary>
-    public int GetInt(DicomTag tag, int index = 0) => checked((int)At(GetLongs(tag), index, tag));
+    public int GetInt(DicomTag tag, int index = 0) => ToInt(At(GetLongs(tag), index, tag), tag);
 
     /// <summary>All values as integers.</summary>
-    public int[] GetInts(DicomTag tag) => Array.ConvertAll(GetLongs(tag), v => checked((int)v));
+    public int[] GetInts(DicomTag tag) => Array.ConvertAll(GetLongs(tag), v => ToInt(v, tag));
 
     /// <summary>All values as 64-bit integers.</summary>
     public long[] GetLongs(DicomTag tag) => DicomValueConverter.Integers(Get(tag), this);
@@ -99,7 +99,7 @@ public sealed class DicomDataset
         if (Find(tag) is not { } e) return false;
         var v = DicomValueConverter.Integers(e, this);
         if (v.Length == 0) return false;
-        value = checked((int)v[0]);
+        value = ToInt(v[0], tag);
         return true;
     }
 
@@ -123,6 +123,12 @@ public sealed class DicomDataset
         return true;
     }
 
+    /// <summary>All values as reals, or null when absent.</summary>
+    public double[]? GetDoublesOrNull(DicomTag tag) => Find(tag) is { } e ? DicomValueConverter.Reals(e, this) : null;
+
+    /// <summary>All values as text, or null when absent.</summary>
+    public string[]? GetStringsOrNull(DicomTag tag) => Find(tag) is { } e ? DicomValueConverter.Texts(e, this) : null;
+
     /// <summary>The items of a sequence; empty when absent or when the element is not a sequence.</summary>
     public IReadOnlyList<DicomDataset> GetSequence(DicomTag tag) => Find(tag)?.Items ?? [];
 
@@ -145,6 +151,11 @@ public sealed class DicomDataset
         }
         return Parent?.CharacterSet ?? DicomCharacterSet.Default;
     }
+
+    private int ToInt(long v, DicomTag tag) => v is >= int.MinValue and <= int.MaxValue
+        ? (int)v
+        : throw new InputFormatException($"{DescribeTag(tag)} value {v} does not fit a 32-bit integer", Where,
+            "the value is out of range; check the file is not corrupt");
 
     private T At<T>(T[] values, int index, DicomTag tag)
     {

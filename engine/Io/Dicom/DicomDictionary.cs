@@ -60,7 +60,9 @@ internal static partial class DicomDictionary
     private static Dictionary<string, DicomTag> BuildKeywords()
     {
         var d = new Dictionary<string, DicomTag>(5000, StringComparer.Ordinal);
-        foreach (var (tag, e) in Singles.Value) d.TryAdd(e.Keyword, DicomTag.FromValue(tag));
+        foreach (var (tag, e) in Singles.Value)
+            if (!d.TryGetValue(e.Keyword, out var existing) || (Singles.Value[existing.Value].Retired && !e.Retired))
+                d[e.Keyword] = DicomTag.FromValue(tag);
         return d;
     }
 }

@@ -19,9 +19,9 @@ public sealed partial class DicomPixelData
         }
         var info = new FrameInfo(Info.Rows, Info.Columns, Info.SamplesPerPixel, Info.BitsAllocated, Info.BitsStored,
             Info.PixelRepresentation, Info.PlanarConfiguration);
-        var output = new byte[info.DecodedLength];
-        _decoder.Decode(compressed, info, output);
-        return output.Length == len ? output : output[..Math.Min(len, output.Length)];
+        var output = new byte[Math.Max(info.DecodedLength, len)];
+        _decoder.Decode(compressed, info, output.AsSpan(0, info.DecodedLength));
+        return output.Length == len ? output : output[..len];
     }
 
     /// <summary>The concatenated fragments of one frame.</summary>

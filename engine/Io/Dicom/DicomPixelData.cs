@@ -59,7 +59,17 @@ public sealed partial class DicomPixelData
     public byte[] GetFrameBytes(int frame)
     {
         CheckFrame(frame);
-        return IsEncapsulated ? DecodeFrame(frame) : NativeFrame(frame);
+        if (!IsEncapsulated) return NativeFrame(frame);
+        try
+        {
+            return DecodeFrame(frame);
+        }
+        catch (Exception ex) when (ex is ArgumentException or IndexOutOfRangeException or OverflowException or InvalidDataException)
+        {
+            // Decoders must raise InputFormatException themselves; this keeps the contract if one does not.
+            throw new InputFormatException($"frame {frame + 1} cannot be decoded ({TransferSyntax.Name}): {ex.Message}",
+                _log.Source, "the compressed data is corrupt; obtain an uncompressed copy (`gdcmconv --raw in.dcm out.dcm`)", ex);
+        }
     }
 
     /// <summary>Stored values of a frame (all samples, in stored order). 32-bit unsigned values are returned as their bit pattern.</summary>
@@ -75,8 +85,16 @@ public sealed partial class DicomPixelData
     {
         if (destination.Length < Info.SamplesPerFrame)
             throw new ArgumentException($"destination holds {destination.Length} values; {Info.SamplesPerFrame} needed", nameof(destination));
-        var bytes = GetFrameBytes(frame);
-        DicomStoredValues.Extract(bytes, Info, destination[..(int)Info.SamplesPerFrame]);
+        CheckFrame(frame);
+        var dest = destination[..(int)Info.SamplesPerFrame];
+        if (!IsEncapsulated && !BigEndian && Info.BitsAllocated != 1)
+        {
+            // Little-endian native frames are read in place, without a copy.
+            var len = (int)Info.FrameBytes;
+            DicomStoredValues.Extract(_native.Span.Slice(checked(frame * len), len), Info, dest);
+            return;
+        }
+        DicomStoredValues.Extract(GetFrameBytes(frame), Info, dest);
     }
 
     /// <summary>Rescaled values (stored × Rescale Slope + Rescale Intercept, PS3.3 C.11.1.1.2), per-frame functional groups honoured.</summary>
@@ -117,9 +135,14 @@ public sealed partial class DicomPixelData
     {
         if (Info.BitsAllocated == 1) return OneBitFrame(frame);
         var len = (int)Info.FrameBytes;
-        var bytes = _native.Span.Slice(checked(frame * len), len).ToArray();
-        if (BigEndian) SwapToLittleEndian(bytes);
-        return bytes;
+        var start = checked(frame * len);
+        if (!BigEndian) return _native.Span.Slice(start, len).ToArray();
+        // Swap whole 16-bit words: an odd-sized 8-bit frame shares its last word with the next frame or the pad byte.
+        var first = start & ~1;
+        var end = Math.Min(_native.Length, (start + len + 1) & ~1);
+        var words = _native.Span[first..end].ToArray();
+        SwapToLittleEndian(words);
+        return words.AsSpan(start - first, len).ToArray();
     }
 
     /// <summary>
