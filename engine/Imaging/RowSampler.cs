@@ -1,4 +1,5 @@
 using System.Runtime.CompilerServices;
+using System.Runtime.InteropServices;
 using Serimetry.Engine.Core;
 
 namespace Serimetry.Engine.Imaging;
@@ -37,6 +38,8 @@ internal static class RowSampler
         ReadOnlySpan<double> zs, Span<float> dst, float outside)
     {
         int sy = n.X, sz = n.X * n.Y;
+        // Neighbour offsets are clamped into the image by Axis(), so the unchecked loads below stay in bounds.
+        ref float s0 = ref MemoryMarshal.GetReference(src);
         for (int i = 0; i < dst.Length; i++)
         {
             double x = xs[i], y = ys[i], z = zs[i];
@@ -48,12 +51,16 @@ internal static class RowSampler
             Axis(x, n.X, out int x0, out int dx, out double fx);
             Axis(y, n.Y, out int y0, out int dy, out double fy);
             Axis(z, n.Z, out int z0, out int dz, out double fz);
-            int b = x0 + sy * y0 + sz * z0;
+            ref float p = ref Unsafe.Add(ref s0, x0 + sy * y0 + sz * z0);
             int by = dy * sy, bz = dz * sz;
-            double c00 = src[b] + fx * (src[b + dx] - src[b]);
-            double c10 = src[b + by] + fx * (src[b + by + dx] - src[b + by]);
-            double c01 = src[b + bz] + fx * (src[b + bz + dx] - src[b + bz]);
-            double c11 = src[b + by + bz] + fx * (src[b + by + bz + dx] - src[b + by + bz]);
+            double v000 = p, v100 = Unsafe.Add(ref p, dx);
+            double v010 = Unsafe.Add(ref p, by), v110 = Unsafe.Add(ref p, by + dx);
+            double v001 = Unsafe.Add(ref p, bz), v101 = Unsafe.Add(ref p, bz + dx);
+            double v011 = Unsafe.Add(ref p, by + bz), v111 = Unsafe.Add(ref p, by + bz + dx);
+            double c00 = v000 + fx * (v100 - v000);
+            double c10 = v010 + fx * (v110 - v010);
+            double c01 = v001 + fx * (v101 - v001);
+            double c11 = v011 + fx * (v111 - v011);
             double c0 = c00 + fy * (c10 - c00);
             double c1 = c01 + fy * (c11 - c01);
             dst[i] = (float)(c0 + fz * (c1 - c0));

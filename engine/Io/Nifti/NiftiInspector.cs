@@ -11,6 +11,9 @@ namespace Serimetry.Engine.Io.Nifti;
 /// </summary>
 public static class NiftiInspector
 {
+    /// <summary>Largest .bval sidecar read (far above any real b-value list).</summary>
+    private const long MaxSidecarBytes = 1 << 20;
+
     /// <summary>Summarises one NIfTI file as a one-series study (geometry in LPS).</summary>
     public static StudySummary Summarize(string path, SeriesRole? role = null)
     {
@@ -50,6 +53,11 @@ public static class NiftiInspector
         string dir = Path.GetDirectoryName(Path.GetFullPath(path)) ?? ".";
         string bval = Path.Combine(dir, StemOf(path) + ".bval");
         if (!File.Exists(bval)) return [];
+        if (new FileInfo(bval).Length > MaxSidecarBytes)
+        {
+            warnings.Add($"{Path.GetFileName(bval)} is larger than {MaxSidecarBytes:N0} bytes; the sidecar is ignored");
+            return [];
+        }
         var fields = File.ReadAllText(bval).Split((char[]?)null, StringSplitOptions.RemoveEmptyEntries);
         var values = new List<double>(fields.Length);
         foreach (var f in fields)

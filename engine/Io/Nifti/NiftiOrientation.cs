@@ -26,16 +26,16 @@ internal static class NiftiOrientation
         {
             ras = SformAffine(h, where);
             source = "sform";
-            if (h.QformCode > 0) WarnWhenDisagreeing(ras, QformAffine(h, where), size, warnings);
+            if (h.QformCode > 0) CompareWithQform(h, ras, size, warnings, where);
         }
         else if (h.QformCode > 0)
         {
-            ras = QformAffine(h, where);
+            ras = QformAffine(h, warnings, where);
             source = "qform";
         }
         else
         {
-            ras = (Mat3.Diagonal(new Vec3(PixDim(h, 1, where), PixDim(h, 2, where), PixDim(h, 3, where))), Vec3.Zero);
+            ras = (Mat3.Diagonal(new Vec3(PixDim(h, 1, warnings), PixDim(h, 2, warnings), PixDim(h, 3, warnings))), Vec3.Zero);
             source = "pixdim";
             warnings.Add("qform_code and sform_code are both 0: orientation unknown, voxel axes taken as RAS with pixdim spacing (nifti1.h method 1)");
         }
@@ -59,7 +59,7 @@ internal static class NiftiOrientation
     /// nifti1.h method 2: R(quaternion b,c,d with a = sqrt(1−b²−c²−d²)) · diag(pixdim1, pixdim2, qfac·pixdim3),
     /// offset (qoffset_x, y, z); qfac = pixdim[0] (−1 flips the third axis, anything else counts as +1).
     /// </summary>
-    public static (Mat3 M, Vec3 T) QformAffine(NiftiHeader h, string where)
+    public static (Mat3 M, Vec3 T) QformAffine(NiftiHeader h, List<string> warnings, string where)
     {
         double b = h.QuaternB, c = h.QuaternC, d = h.QuaternD;
         double aa = 1.0 - (b * b + c * c + d * d);
@@ -77,7 +77,7 @@ internal static class NiftiOrientation
         }
         var r = QuaternionToMatrix(a, b, c, d);
         double qfac = h.PixDim[0] < 0 ? -1 : 1;
-        var scale = new Vec3(PixDim(h, 1, where), PixDim(h, 2, where), qfac * PixDim(h, 3, where));
+        var scale = new Vec3(PixDim(h, 1, warnings), PixDim(h, 2, warnings), qfac * PixDim(h, 3, warnings));
         var t = new Vec3(h.QoffsetX, h.QoffsetY, h.QoffsetZ);
         if (!t.IsFinite) throw new InputFormatException("qoffset_x/y/z holds a non-finite number", where);
         return (r * Mat3.Diagonal(scale), t);
@@ -180,6 +180,19 @@ internal static class NiftiOrientation
         return new Geometry(size, spacing, t, rot);
     }
 
+    /// <summary>Records a warning when a (secondary) qform disagrees with the sform or is itself invalid.</summary>
+    private static void CompareWithQform(NiftiHeader h, (Mat3 M, Vec3 T) sform, Size3 size, List<string> warnings, string where)
+    {
+        try
+        {
+            WarnWhenDisagreeing(sform, QformAffine(h, [], where), size, warnings);
+        }
+        catch (InputException e)
+        {
+            warnings.Add($"the qform is invalid ({e.Message}) and was ignored; the sform is used");
+        }
+    }
+
     private static void WarnWhenDisagreeing((Mat3 M, Vec3 T) s, (Mat3 M, Vec3 T) q, Size3 size, List<string> warnings)
     {
         double worst = 0;
@@ -193,14 +206,17 @@ internal static class NiftiOrientation
                 $"qform and sform disagree by up to {worst:G4} mm at the grid corners; the sform is used (nifti1.h: sform_code > 0 takes precedence)"));
     }
 
-    private static double PixDim(NiftiHeader h, int axis, string where)
+    /// <summary>
+    /// pixdim[axis] as a voxel size. A zero, negative or non-finite value is taken as 1 mm with a warning,
+    /// which is what the NIfTI reference library does when it builds qto_xyz (checked with nifti_tool).
+    /// </summary>
+    private static double PixDim(NiftiHeader h, int axis, List<string> warnings)
     {
         double v = h.PixDim[axis];
-        if (!(v > 0) || !double.IsFinite(v))
-            throw new InputFormatException(
-                string.Create(CultureInfo.InvariantCulture, $"pixdim[{axis}] is {v}; a voxel size must be positive"), where,
-                "repair pixdim in the header");
-        return v;
+        if (v > 0 && double.IsFinite(v)) return v;
+        warnings.Add(string.Create(CultureInfo.InvariantCulture,
+            $"pixdim[{axis}] is {v}, not a voxel size; 1 mm is assumed (as the NIfTI reference library does)"));
+        return 1.0;
     }
 
     private static bool IsFinite(Mat3 m)

@@ -36,7 +36,15 @@ internal sealed class NiftiSource : IDisposable
     {
         if (!File.Exists(path))
             throw new InputFormatException("file not found", path, "check the path");
-        var file = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.Read, 1 << 16);
+        FileStream file;
+        try
+        {
+            file = new FileStream(path, FileMode.Open, FileAccess.Read, FileShare.Read, 1 << 16);
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            throw new InputFormatException($"cannot open the file ({e.Message})", path, "check that the file exists and is readable", e);
+        }
         try
         {
             Span<byte> magic = stackalloc byte[2];

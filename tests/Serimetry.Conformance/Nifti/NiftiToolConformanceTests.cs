@@ -152,6 +152,21 @@ public sealed class NiftiToolConformanceTests : IDisposable
         AssertCornersMatch(image.Geometry, qto);
     }
 
+    // Src: nifti_tool -disp_nim: the reference library takes a zero or negative pixdim as 1 when it builds qto_xyz.
+    [Fact]
+    public void NonPositivePixdimIsTakenAsOneLikeTheReferenceLibrary()
+    {
+        var made = _scratch.PathOf("p0.nii");
+        var path = _scratch.PathOf("p.nii");
+        NiftiTool.Run("-make_im", "-prefix", made, "-new_dims", "3", "6", "5", "4", "0", "0", "0", "0", "-new_datatype", "4");
+        NiftiTool.Run("-mod_hdr", "-prefix", path, "-infiles", made, "-mod_field", "qform_code", "1",
+            "-mod_field", "pixdim", "1 0 -2 0.5 0 0 0 0");
+        var qto = NiftiTool.Numbers(NiftiTool.Image(path), "qto_xyz");
+        var image = NiftiFile.Read(path);
+        AssertCornersMatch(image.Geometry, qto);
+        Assert.Equal(2, image.Warnings.Count(w => w.Contains("1 mm is assumed")));
+    }
+
     // nifti1.h: when sform_code > 0 the sform is used even if a qform is present; a disagreement is recorded.
     [Fact]
     public void SformTakesPrecedenceOverQform()

@@ -13,11 +13,11 @@ public sealed class NiftiBadInputTests : IDisposable
 
     public void Dispose() => _files.Dispose();
 
-    private byte[] ValidFile(bool gz = false)
+    private byte[] ValidFile(bool gz = false, int version = 1)
     {
         var g = TestGrids.Oblique(new Size3(6, 5, 4));
         var path = _files.PathOf(gz ? "valid.nii.gz" : "valid.nii");
-        NiftiFile.Write(path, TestGrids.Random(g, 7));
+        NiftiFile.Write(path, TestGrids.Random(g, 7), new NiftiWriteOptions(Version: version));
         return File.ReadAllBytes(path);
     }
 
@@ -145,14 +145,15 @@ public sealed class NiftiBadInputTests : IDisposable
         var rng = new Random(20261201);
         var plain = ValidFile();
         var gz = ValidFile(gz: true);
+        var v2 = ValidFile(version: 2);
         for (int round = 0; round < 300; round++)
         {
-            var src = round % 3 == 0 ? gz : plain;
+            var src = round % 3 == 0 ? gz : round % 3 == 1 ? v2 : plain;
             var b = (byte[])src.Clone();
             int flips = 1 + rng.Next(4);
             for (int f = 0; f < flips; f++)
             {
-                int pos = round % 2 == 0 ? rng.Next(Math.Min(b.Length, 352)) : rng.Next(b.Length);
+                int pos = round % 2 == 0 ? rng.Next(Math.Min(b.Length, 544)) : rng.Next(b.Length);
                 b[pos] ^= (byte)(1 << rng.Next(8));
             }
             if (rng.Next(5) == 0) b = b[..rng.Next(b.Length)];

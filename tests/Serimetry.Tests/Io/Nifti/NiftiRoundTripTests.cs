@@ -174,6 +174,22 @@ public sealed class NiftiRoundTripTests : IDisposable
         for (int i = 0; i < expected.Length; i++) Assert.Equal((float)expected[i], read.Volume.Voxels[i]);
     }
 
+    // Src: nifti1.h dim[0] = number of dimensions: a 2D image (dim[0] = 2) is a single-slice volume.
+    [Fact]
+    public void TwoDimensionalImageIsASingleSliceVolume()
+    {
+        var g = TestGrids.Oblique(new Size3(6, 4, 1));
+        var v = TestGrids.Random(g, 21);
+        var path = _files.PathOf("slice.nii");
+        NiftiFile.Write(path, v);
+        NiftiTestFiles.PatchInt16(path, 40, 2);    // dim[0]
+        NiftiTestFiles.PatchInt16(path, 46, 0);    // dim[3] unused beyond dim[0]
+        var back = NiftiFile.Read(path);
+        Assert.Equal(new Size3(6, 4, 1), back.Geometry.Size);
+        Assert.Equal(v.Voxels, back.Volume.Voxels);
+        NiftiTestFiles.AssertGeometryClose(g, back.Geometry);
+    }
+
     [Fact]
     public void MaskReaderKeepsIntegerLabelsAndRefusesOthers()
     {
