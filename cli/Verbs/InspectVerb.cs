@@ -42,7 +42,8 @@ internal sealed class InspectVerb : IVerb
             ctx.Out.WriteLine(DicomFileSummary.FromFile(path).ToJson());
             return CliHost.ExitOk;
         }
-        var options = new StudyIndexOptions(MaxDegreeOfParallelism: args.GetInt("threads", -1, -1, 256));
+        var options = new StudyIndexOptions(MaxDegreeOfParallelism: args.GetInt("threads", -1, -1, 256),
+            Progress: ShowsProgress(ctx) ? new TerminalProgress(ctx.Err) : null);
         var index = StudyIndex.Build(path, DicomSliceHeaderReader.Default, options);
         var report = InspectReport.From(index, overrides);
         var known = report.Studies.SelectMany(s => s.Series).Select(s => s.SeriesInstanceUid).ToHashSet(StringComparer.Ordinal);
@@ -51,6 +52,23 @@ internal sealed class InspectVerb : IVerb
                 "copy the seriesInstanceUid from 'serimetry inspect PATH --json'");
         Print(report, json, ctx);
         return CliHost.ExitOk;
+    }
+
+    /// <summary>Progress goes to stderr only when it is a terminal (never into redirected output or logs).</summary>
+    private static bool ShowsProgress(CliContext ctx) => ReferenceEquals(ctx.Err, Console.Error) && !Console.IsErrorRedirected;
+
+    private sealed class TerminalProgress(TextWriter err) : IProgress<(int Done, int Total)>
+    {
+        private readonly Lock _lock = new();
+
+        public void Report((int Done, int Total) value)
+        {
+            lock (_lock)
+            {
+                err.Write($"\rreading headers: {value.Done}/{value.Total} files");
+                if (value.Done == value.Total) err.Write("\r" + new string(' ', 48) + "\r");
+            }
+        }
     }
 
     private static bool IsNifti(string path) =>

@@ -50,11 +50,17 @@ public sealed class StudyIndex
         else throw new InputFormatException("no such file or folder", path, "give a folder, a .zip archive or a DICOM file");
 
         var perFile = new FileResult[files.Count];
+        int done = 0;
         try
         {
             ParallelRange.For(files.Count, 8, (_, start, end) =>
             {
-                for (int i = start; i < end; i++) perFile[i] = ReadOne(files[i], reader, options);
+                for (int i = start; i < end; i++)
+                {
+                    perFile[i] = ReadOne(files[i], reader, options);
+                    int d = Interlocked.Increment(ref done);
+                    if (options.Progress is { } p && (d % 64 == 0 || d == files.Count)) p.Report((d, files.Count));
+                }
             }, options.MaxDegreeOfParallelism);
         }
         catch (AggregateException ae) when (ae.Flatten().InnerExceptions.OfType<InputException>().FirstOrDefault() is { } first)

@@ -6,7 +6,9 @@ namespace Serimetry.Engine.Io;
 /// <param name="MaxFiles">Most files (and zip entries) one index may look at.</param>
 /// <param name="Zip">Limits for .zip archives.</param>
 /// <param name="MaxDegreeOfParallelism">Threads for reading headers (-1: all cores; 1: sequential). Output order never depends on it.</param>
-public sealed record StudyIndexOptions(int MaxFiles = 200_000, ZipLimits? Zip = null, int MaxDegreeOfParallelism = -1)
+/// <param name="Progress">Told (files done, files in total) now and then while headers are read; may be called from any thread.</param>
+public sealed record StudyIndexOptions(int MaxFiles = 200_000, ZipLimits? Zip = null, int MaxDegreeOfParallelism = -1,
+    IProgress<(int Done, int Total)>? Progress = null)
 {
     public static readonly StudyIndexOptions Default = new();
 }

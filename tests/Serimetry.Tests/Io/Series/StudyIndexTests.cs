@@ -206,4 +206,24 @@ public sealed class StudyIndexTests : IDisposable
         Assert.True(at >= 0);
         BitConverter.TryWriteBytes(bytes.AsSpan(at + offset, 4), 1000u);
     }
+
+    private sealed class Recorder : IProgress<(int Done, int Total)>
+    {
+        public readonly List<(int, int)> Reports = [];
+
+        public void Report((int Done, int Total) value)
+        {
+            lock (Reports) Reports.Add(value);
+        }
+    }
+
+    [Fact]
+    public void ProgressEndsWithAllFilesDone()
+    {
+        for (int i = 0; i < 70; i++) File.WriteAllBytes(Path.Combine(_dir, $"f{i:D3}.dcm"), FakeDicom("1.2"));
+        var rec = new Recorder();
+        StudyIndex.Build(_dir, new FakeReader(), new StudyIndexOptions(MaxDegreeOfParallelism: 2, Progress: rec));
+        Assert.Contains((70, 70), rec.Reports);
+        Assert.All(rec.Reports, r => Assert.InRange(r.Item1, 1, 70));
+    }
 }
