@@ -38,12 +38,11 @@ internal static class StackGeometry
         double step = SliceStep(unique, first, warnings);
         if (unique.Length > 2)
         {
-            var spacingProblem = CheckSpacing(unique, step, tol);
-            if (spacingProblem is not null) blocking ??= Add(warnings, spacingProblem);
+            if (CheckSpacing(unique, step, tol) is { } spacingProblem) blocking = Block(blocking, warnings, spacingProblem);
         }
         double drift = InPlaneDrift(ordered, n);
         if (drift > tol.InPlaneDriftMm)
-            blocking ??= Add(warnings, string.Format(Inv,
+            blocking = Block(blocking, warnings, string.Format(Inv,
                 "slice positions leave the line along the slice normal by up to {0:G4} mm (sheared stack, tolerance {1} mm)",
                 drift, tol.InPlaneDriftMm));
 
@@ -56,6 +55,13 @@ internal static class StackGeometry
     {
         warnings.Add(message);
         return message;
+    }
+
+    /// <summary>Records a problem as a warning; the first problem found stays the blocking one.</summary>
+    private static string Block(string? blocking, List<string> warnings, string message)
+    {
+        warnings.Add(message);
+        return blocking ?? message;
     }
 
     /// <summary>Sorts by position along n; ties by Instance Number then source, so the order is deterministic.</summary>

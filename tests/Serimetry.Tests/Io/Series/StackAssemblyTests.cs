@@ -185,4 +185,15 @@ public class StackAssemblyTests
         Assert.Equal(10, s.MainStacks[0].Slices.Count);
         Assert.Contains(s.Summary.Warnings, w => w.Contains("1 file(s) repeat an image"));
     }
+
+    [Fact]
+    public void EveryProblemIsListedNotOnlyTheFirst()
+    {
+        var slices = SyntheticSlices.Oblique();
+        slices.Add(slices[2] with { Source = new SliceSource("/data/copy.dcm"), SopInstanceUid = "1.2.3.1.98" });
+        slices.RemoveAt(6);
+        var stack = One(slices).MainStacks[0];
+        Assert.Contains("duplicate", stack.BlockingProblem);
+        Assert.Contains(stack.Warnings, w => w.Contains("gap"));
+    }
 }
