@@ -87,7 +87,7 @@ public sealed record InspectSeries(
     int[] Size,
     double?[] Spacing,
     double?[] Origin,
-    double[] Direction,
+    double?[] Direction,
     IReadOnlyList<double> BValues,
     int? SeriesNumber,
     string? SeriesDescription,
@@ -110,7 +110,7 @@ public sealed record InspectSeries(
         var m = s.Summary;
         var a = m.Acquisition;
         return new InspectSeries(m.SeriesInstanceUid, InspectReport.RoleName(m.Role), m.Size.ToArray(), Finite(m.SpacingMm),
-            Finite(m.OriginMm), Clean(m.Direction.ToRowMajor()), m.BValues, s.SeriesNumber, a.SeriesDescription, a.Modality,
+            Finite(m.OriginMm), DirectionOf(m), m.BValues, s.SeriesNumber, a.SeriesDescription, a.Modality,
             s.Role.Reason, s.Role.IsComputed, a.FieldStrengthT, a.Manufacturer, a.Model, a.RepetitionTimeMs, a.EchoTimeMs,
             a.SliceThicknessMm, s.NumberOfFiles, m.Source, s.Stacks.Select(InspectStack.From).ToList(), m.Warnings);
     }
@@ -120,7 +120,7 @@ public sealed record InspectSeries(
     {
         var a = m.Acquisition;
         return new InspectSeries(m.SeriesInstanceUid, InspectReport.RoleName(m.Role), m.Size.ToArray(), Finite(m.SpacingMm),
-            Finite(m.OriginMm), Clean(m.Direction.ToRowMajor()), m.BValues, null, a.SeriesDescription, a.Modality, "from the file's header",
+            Finite(m.OriginMm), DirectionOf(m), m.BValues, null, a.SeriesDescription, a.Modality, "from the file's header",
             false, a.FieldStrengthT, a.Manufacturer, a.Model, a.RepetitionTimeMs, a.EchoTimeMs, a.SliceThicknessMm, 1, m.Source,
             [], m.Warnings);
     }
@@ -129,11 +129,14 @@ public sealed record InspectSeries(
 
     private static double? F(double x) => double.IsFinite(x) ? x + 0.0 : null;
 
-    /// <summary>Writes negative zero as 0 (cosines of exactly 0 come out of cross products as -0).</summary>
-    private static double[] Clean(double[] v)
+    /// <summary>
+    /// The direction, row-major, with negative zero written as 0 (cosines of exactly 0 come out of cross
+    /// products as -0); nulls when the series has no geometry (its origin is unknown).
+    /// </summary>
+    private static double?[] DirectionOf(SeriesSummary m)
     {
-        for (int i = 0; i < v.Length; i++) v[i] += 0.0;
-        return v;
+        if (!m.OriginMm.IsFinite) return new double?[9];
+        return m.Direction.ToRowMajor().Select(v => (double?)(v + 0.0)).ToArray();
     }
 }
 

@@ -23,7 +23,13 @@ internal static class StackGeometry
         }
         var r = first.RowCosine.Value;
         var c = first.ColumnCosine.Value;
-        var n = r.Cross(c);
+        var cross = r.Cross(c);
+        if (!(cross.Norm > 0.5) || Math.Abs(r.Norm - 1) > 0.01 || Math.Abs(c.Norm - 1) > 0.01)
+        {
+            var why = $"Image Orientation (Patient) (0020,0037) row {r} and column {c} are not two perpendicular unit vectors";
+            return new SliceStack(group, null, bValue, bSource, label, [why], why);
+        }
+        var n = cross.Normalized();
         var ordered = Order(group, n);
         var positions = ordered.Select(s => s.ImagePositionPatient!.Value.Dot(n)).ToArray();
         var warnings = new List<string>();

@@ -196,4 +196,16 @@ public class StackAssemblyTests
         Assert.Contains("duplicate", stack.BlockingProblem);
         Assert.Contains(stack.Warnings, w => w.Contains("gap"));
     }
+
+    [Theory]
+    [InlineData(0, 0, 0, 0, 0, 0)]
+    [InlineData(1, 0, 0, 1, 0, 0)]
+    [InlineData(2, 0, 0, 0, 1, 0)]
+    public void DegenerateOrientationIsReportedNotThrown(double a, double b, double c, double d, double e, double f)
+    {
+        var slices = SyntheticSlices.Oblique().Select(x => x with { RowCosine = new Vec3(a, b, c), ColumnCosine = new Vec3(d, e, f) }).ToList();
+        var stack = One(slices).MainStacks[0];
+        Assert.Null(stack.Geometry);
+        Assert.Contains("Image Orientation", stack.BlockingProblem);
+    }
 }
