@@ -12,14 +12,19 @@ public static class SeriesAssembler
 {
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
-    /// <summary>Groups by Study then Series Instance UID; output order is deterministic (study UID, series number, UID).</summary>
+    /// <summary>
+    /// Groups by Study then Series Instance UID; output order is deterministic: studies by Study Date then UID,
+    /// series by Series Number then UID.
+    /// </summary>
     public static IReadOnlyList<AssembledStudy> Assemble(IReadOnlyList<SliceHeader> slices, SeriesAssemblyOptions? options = null)
     {
         ArgumentNullException.ThrowIfNull(slices);
         options ??= new SeriesAssemblyOptions();
         var tol = options.Tolerances ?? StackTolerances.Default;
         var studies = new List<AssembledStudy>();
-        foreach (var study in slices.GroupBy(s => s.StudyInstanceUid ?? "").OrderBy(g => g.Key, StringComparer.Ordinal))
+        var byStudy = slices.GroupBy(s => s.StudyInstanceUid ?? "")
+            .OrderBy(g => g.First().StudyDate ?? "99999999", StringComparer.Ordinal).ThenBy(g => g.Key, StringComparer.Ordinal);
+        foreach (var study in byStudy)
         {
             var list = study.ToList();
             var series = list.GroupBy(s => s.SeriesInstanceUid ?? PlaceholderUid(s))
