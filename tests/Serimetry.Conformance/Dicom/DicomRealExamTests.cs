@@ -39,6 +39,17 @@ public sealed partial class DicomRealExamTests
         Assert.Equal(files.Length * Tags.Length, compared);
     }
 
+    [Fact]
+    public void Private_text_stored_as_OB_reads_as_text()
+    {
+        // Src: dcmdump of this file prints (0019,100c) OB 31\36\30\30, i.e. the ASCII text "1600".
+        var path = Directory.GetFiles(SharedReference.PathOf("mr", "ProstateX-0218"), "1-04.dcm", SearchOption.AllDirectories)
+            .Single(p => p.Contains("CALCBVAL", StringComparison.Ordinal));
+        var ds = DicomFile.ReadHeader(path).Dataset;
+        Assert.Equal(DicomVR.OB, ds.Get(new DicomTag(0x0019, 0x100C)).VR);
+        Assert.Equal("1600", ds.GetText(new DicomTag(0x0019, 0x100C)));
+    }
+
     [Theory]
     [InlineData("ProstateX-0000")]
     [InlineData("ProstateX-0218")]
