@@ -91,7 +91,7 @@ public sealed class DicomDatasetTests
         // Src: dcmtk `dcmdump UN_sequence.dcm` shows (4453,100C) > item > (0008,1115) > item > (0020,000E); PS3.5 6.2.2.
         var ds = DicomFile.Read(SharedReference.PathOf("dicom", "files", "UN_sequence.dcm")).Dataset;
         var un = ds.Get(new DicomTag(0x4453, 0x100C));
-        Assert.Equal(DicomVR.UN, un.VR);
+        Assert.Equal(DicomVR.SQ, un.VR); // dcmdump also reports SQ
         var item = Assert.Single(un.Items!);
         var series = Assert.Single(item.GetSequence(DicomTags.ReferencedSeriesSequence));
         Assert.Equal("1.2.840.113619.2.327.3.185221411.476.1398588726.276", series.GetString(DicomTags.SeriesInstanceUID));
