@@ -1,7 +1,7 @@
 #!/usr/bin/env python3
 """Generate the engine's DICOM data dictionary from dcmtk's dicom.dic (PS3.6 data, BSD-licensed).
 
-Usage: python3 tools/gen-dicom-dictionary.py [/usr/share/libdcmtk17/dicom.dic]
+Usage: python3 tools/gen-dicom-dictionary.py [--out DIR] [/usr/share/libdcmtk17/dicom.dic]
 
 Writes engine/Io/Dicom/DicomDictionary.Generated.cs (tag -> keyword, VR, VM; repeating-group
 ranges as a separate small table) and engine/Io/Dicom/DicomTags.Generated.cs (one DicomTag
@@ -49,6 +49,7 @@ def parse(path):
             m = LINE.match(tag)
             if not m:
                 continue
+            us_or_ss = vr == "xs"
             vr = PSEUDO_VR.get(vr, vr)
             if vr != "None" and vr not in VALID_VR:
                 raise SystemExit(f"unknown VR {vr!r} in line: {line}")
@@ -58,7 +59,7 @@ def parse(path):
             e_lo, e_hi, e_par = parse_range(m.group(4), m.group(5), m.group(6))
             if g_lo == g_hi and e_lo == e_hi:
                 # later entries override earlier ones, as in dcmtk
-                singles[(g_lo << 16) | e_lo] = (keyword, vr, vm, retired)
+                singles[(g_lo << 16) | e_lo] = (keyword, "xs" if us_or_ss else vr, vm, retired)
             else:
                 ranges.append((g_lo, g_hi, g_par, e_lo, e_hi, e_par, keyword, vr, vm, retired))
     return singles, ranges
@@ -74,7 +75,7 @@ def write_dictionary(singles, ranges, source):
     out.append("")
     out.append("internal static partial class DicomDictionary")
     out.append("{")
-    out.append("    /// <summary>One line per tag: 8 hex digits, VR, VM, keyword, R when retired.</summary>")
+    out.append("    /// <summary>One line per tag: 8 hex digits, VR (xs: US or SS by Pixel Representation), VM, keyword, R when retired.</summary>")
     out.append("    private const string SingleEntries =")
     lines = []
     for tag in sorted(singles):
@@ -123,7 +124,13 @@ def write_tags(singles, source):
 
 
 def main():
-    source = sys.argv[1] if len(sys.argv) > 1 else DEFAULT_SOURCE
+    global OUT_DICT, OUT_TAGS
+    args = sys.argv[1:]
+    if len(args) >= 2 and args[0] == "--out":
+        OUT_DICT = os.path.join(args[1], os.path.basename(OUT_DICT))
+        OUT_TAGS = os.path.join(args[1], os.path.basename(OUT_TAGS))
+        args = args[2:]
+    source = args[0] if args else DEFAULT_SOURCE
     singles, ranges = parse(source)
     write_dictionary(singles, ranges, source)
     n = write_tags(singles, source)

@@ -77,6 +77,14 @@ public sealed class DicomDataset
         return Contains(tag);
     }
 
+    /// <summary>
+    /// The raw value bytes decoded as text in the data set's character set whatever the VR, trailing
+    /// spaces and NULs removed; for private elements that hold text but are stored as OB or UN.
+    /// Null when absent.
+    /// </summary>
+    public string? GetText(DicomTag tag) =>
+        Find(tag) is { } e ? CharacterSet.Decode(e.Value.Span).TrimEnd(' ', '\0') : null;
+
     /// <summary>All values as text, split on backslash and trimmed (LT, ST, UT, UR are single-valued).</summary>
     public string[] GetStrings(DicomTag tag) => DicomValueConverter.Texts(Get(tag), this);
 

@@ -3,7 +3,11 @@ using System.Globalization;
 namespace Serimetry.Engine.Io.Dicom;
 
 /// <summary>One data dictionary entry (PS3.6): keyword, VR, VM and whether it is retired.</summary>
-public sealed record DictionaryEntry(string Keyword, DicomVR VR, string VM, bool Retired);
+public sealed record DictionaryEntry(string Keyword, DicomVR VR, string VM, bool Retired)
+{
+    /// <summary>PS3.6 lists "US or SS": SS when Pixel Representation is 1 (the dictionary VR is US).</summary>
+    public bool UsOrSs { get; init; }
+}
 
 /// <summary>Which numbers of a repeating range are valid.</summary>
 internal enum RangeParity { All, Even, Odd }
@@ -51,8 +55,9 @@ internal static partial class DicomDictionary
             if (line.IsEmpty) continue;
             var s = line.ToString().Split(' ');
             var tag = uint.Parse(s[0], NumberStyles.HexNumber, CultureInfo.InvariantCulture);
-            var vr = s[1] == "None" ? DicomVR.None : Enum.Parse<DicomVR>(s[1]);
-            d[tag] = new DictionaryEntry(s[3], vr, s[2], s.Length > 4 && s[4] == "R");
+            var usOrSs = s[1] == "xs";
+            var vr = s[1] switch { "None" => DicomVR.None, "xs" => DicomVR.US, _ => Enum.Parse<DicomVR>(s[1]) };
+            d[tag] = new DictionaryEntry(s[3], vr, s[2], s.Length > 4 && s[4] == "R") { UsOrSs = usOrSs };
         }
         return d;
     }

@@ -22,7 +22,11 @@ public sealed class DicomElement
     /// <summary>The tag.</summary>
     public DicomTag Tag { get; }
 
-    /// <summary>The VR: from the Explicit VR header, or from the data dictionary for Implicit VR (UN when unknown).</summary>
+    /// <summary>
+    /// The VR: from the Explicit VR header, or from the data dictionary for Implicit VR (UN when unknown).
+    /// Elements of undefined length read as sequences (UN per PS3.5 6.2.2, unknown Implicit VR elements)
+    /// report SQ, as dcmtk does.
+    /// </summary>
     public DicomVR VR { get; }
 
     /// <summary>The value bytes as stored (empty for sequences and encapsulated Pixel Data).</summary>

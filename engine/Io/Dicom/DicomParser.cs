@@ -88,6 +88,8 @@ internal sealed partial class DicomParser(ReadOnlyMemory<byte> buffer, DicomRead
                 continue;
             }
             var (vr, length) = ReadHeaderRest(tag, enc);
+            if (enc.Implicit && vr == DicomVR.US && IsSignedPixelData(ds) && DicomDictionary.Lookup(tag) is { UsOrSs: true })
+                vr = DicomVR.SS;
             if (depth == 0 && StopAtPixelData && tag == PixelDataTag)
             {
                 PixelData = new DicomPixelDataLocation(_pos, length == UndefinedLength ? -1 : length, vr,
@@ -114,7 +116,8 @@ internal sealed partial class DicomParser(ReadOnlyMemory<byte> buffer, DicomRead
             // PS3.5 6.2.2: UN of undefined length holds an Implicit VR Little Endian sequence.
             var itemEnc = vr == DicomVR.UN ? DicomEncoding.ImplicitLittle : enc;
             var items = ParseItems(ds, tag, length, itemEnc, depth, limit);
-            return new DicomElement(tag, vr, ReadOnlyMemory<byte>.Empty, valueStart, true, items);
+            // Read as a sequence, it is one: report SQ as dcmtk does.
+            return new DicomElement(tag, DicomVR.SQ, ReadOnlyMemory<byte>.Empty, valueStart, true, items);
         }
         CheckFits(tag, vr, length, limit);
         if (vr == DicomVR.SQ)
@@ -171,6 +174,15 @@ internal sealed partial class DicomParser(ReadOnlyMemory<byte> buffer, DicomRead
             items.Add(item);
         }
         return items;
+    }
+
+    /// <summary>"US or SS" attributes are SS when Pixel Representation (0028,0103) of the data set (or an enclosing one) is 1.</summary>
+    private static bool IsSignedPixelData(DicomDataset ds)
+    {
+        for (var d = ds; d is not null; d = d.Parent)
+            if (d.Find(new DicomTag(0x0028, 0x0103)) is { } pr)
+                return pr.Value.Length >= 2 && BinaryPrimitives.ReadUInt16LittleEndian(pr.Value.Span) == 1;
+        return false;
     }
 
     /// <summary>Reads the Basic Offset Table and fragments of encapsulated Pixel Data (PS3.5 A.4).</summary>

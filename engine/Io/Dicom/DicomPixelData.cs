@@ -100,13 +100,21 @@ public sealed partial class DicomPixelData
     /// <summary>Rescaled values (stored × Rescale Slope + Rescale Intercept, PS3.3 C.11.1.1.2), per-frame functional groups honoured.</summary>
     public float[] GetRescaledValues(int frame)
     {
+        var result = new float[Info.SamplesPerFrame];
+        GetRescaledValues(frame, result);
+        return result;
+    }
+
+    /// <summary>Writes the rescaled values of a frame into <paramref name="destination"/> (length <see cref="DicomImagePixelInfo.SamplesPerFrame"/>).</summary>
+    public void GetRescaledValues(int frame, Span<float> destination)
+    {
+        if (destination.Length < Info.SamplesPerFrame)
+            throw new ArgumentException($"destination holds {destination.Length} values; {Info.SamplesPerFrame} needed", nameof(destination));
         var stored = GetStoredValues(frame);
         var (slope, intercept) = GetRescale(frame);
-        var result = new float[stored.Length];
         var unsigned32 = Info.BitsAllocated == 32 && Info.PixelRepresentation == 0;
         for (var i = 0; i < stored.Length; i++)
-            result[i] = (float)((unsigned32 ? (uint)stored[i] : stored[i]) * slope + intercept);
-        return result;
+            destination[i] = (float)((unsigned32 ? (uint)stored[i] : stored[i]) * slope + intercept);
     }
 
     /// <summary>Rescale Slope and Intercept of a frame (0-based).</summary>

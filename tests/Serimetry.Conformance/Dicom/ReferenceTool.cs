@@ -6,7 +6,10 @@ namespace Serimetry.Conformance.Dicom;
 /// <summary>Runs an outside reference tool (dcmtk, GDCM) and fails clearly when it is missing or fails.</summary>
 internal static class ReferenceTool
 {
-    public static void Run(string tool, params string[] args)
+    public static void Run(string tool, params string[] args) => Capture(tool, args);
+
+    /// <summary>Runs the tool and returns its standard output.</summary>
+    public static string Capture(string tool, params string[] args)
     {
         var psi = new ProcessStartInfo(tool) { RedirectStandardError = true, RedirectStandardOutput = true };
         foreach (var a in args) psi.ArgumentList.Add(a);
@@ -30,7 +33,8 @@ internal static class ReferenceTool
                 throw new TimeoutException($"{tool} did not finish within 120 s");
             }
             if (p.ExitCode != 0)
-                throw new InvalidOperationException($"{tool} {string.Join(' ', args)} failed ({p.ExitCode}): {stderr.Result}{stdout.Result}");
+                throw new InvalidOperationException($"{tool} {string.Join(' ', args.Take(8))} failed ({p.ExitCode}): {stderr.Result}{stdout.Result}");
+            return stdout.Result;
         }
     }
 

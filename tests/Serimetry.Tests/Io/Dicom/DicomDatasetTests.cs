@@ -91,7 +91,7 @@ public sealed class DicomDatasetTests
         // Src: dcmtk `dcmdump UN_sequence.dcm` shows (4453,100C) > item > (0008,1115) > item > (0020,000E); PS3.5 6.2.2.
         var ds = DicomFile.Read(SharedReference.PathOf("dicom", "files", "UN_sequence.dcm")).Dataset;
         var un = ds.Get(new DicomTag(0x4453, 0x100C));
-        Assert.Equal(DicomVR.UN, un.VR);
+        Assert.Equal(DicomVR.SQ, un.VR); // dcmdump also reports SQ
         var item = Assert.Single(un.Items!);
         var series = Assert.Single(item.GetSequence(DicomTags.ReferencedSeriesSequence));
         Assert.Equal("1.2.840.113619.2.327.3.185221411.476.1398588726.276", series.GetString(DicomTags.SeriesInstanceUID));
@@ -147,6 +147,19 @@ public sealed class DicomDatasetTests
             Assert.True(px.IsEncapsulated);
             for (var i = 0; i < 3; i++) Assert.Equal(frames[i].Select(v => (int)v), px.GetStoredValues(i));
         }
+    }
+
+    [Fact]
+    public void Without_offset_table_fragments_are_grouped_at_jpeg_end_of_image_markers()
+    {
+        // Src: PS3.5 A.4 (a frame may span fragments) and ITU-T T.81 B.1.1.3 (EOI marker FFD9 ends an image).
+        var b = DicomBytes.Part10("1.2.840.10008.1.2.1.98").US(0x0028, 0x0010, 2).US(0x0028, 0x0011, 2)
+            .Text(0x0028, 0x0008, "IS", "3").US(0x0028, 0x0100, 8).US(0x0028, 0x0101, 8).US(0x0028, 0x0102, 7)
+            .Header(0x7FE0, 0x0010, "OB", 0xFFFFFFFF).Item(0xE000, 0);
+        for (byte f = 0; f < 3; f++) b.Item(0xE000, 2).Raw([f, (byte)(f + 10)]).Item(0xE000, 2).Raw([0xFF, 0xD9]);
+        b.Item(0xE0DD, 0);
+        var px = DicomFile.Read(b.ToArray().AsMemory()).GetPixelData();
+        for (var f = 0; f < 3; f++) Assert.Equal([f, f + 10, 0xFF, 0xD9], px.GetStoredValues(f));
     }
 
     [Fact]

@@ -56,4 +56,17 @@ public sealed class DicomLeniencyTests
         Assert.NotEmpty(file.Leniencies);
         Assert.Throws<InputFormatException>(() => DicomFile.Read(bytes.AsMemory(), new DicomReadOptions(Strict: true)));
     }
+    [Fact]
+    public void Stream_memory_and_file_reads_agree()
+    {
+        var path = Serimetry.Tests.Shared.SharedReference.PathOf("dicom", "files", "MR_small_bigendian.dcm");
+        using var fs = File.OpenRead(path);
+        var fromStream = DicomFile.Read(fs, source: "s.dcm");
+        var fromMemory = DicomFile.Read(File.ReadAllBytes(path).AsMemory());
+        var fromFile = DicomFile.ReadHeader(path);
+        Assert.Equal("s.dcm", fromStream.Source);
+        Assert.Equal(fromFile.GetPixelData().GetStoredValues(0), fromStream.GetPixelData().GetStoredValues(0));
+        Assert.Equal(fromFile.GetPixelData().GetStoredValues(0), fromMemory.GetPixelData().GetStoredValues(0));
+        Assert.Equal(fromFile.Dataset.GetString(DicomTags.SeriesInstanceUID), fromStream.Dataset.GetString(DicomTags.SeriesInstanceUID));
+    }
 }
