@@ -5,6 +5,7 @@ internal static class VerbCatalog
 {
     public static IReadOnlyList<IVerb> All { get; } =
     [
+        new InspectVerb(),
         new CompareVerb(),
         new PhantomVerb(),
         new QaVerb(),
