@@ -75,12 +75,13 @@ def write_dictionary(singles, ranges, source):
     out.append("")
     out.append("internal static partial class DicomDictionary")
     out.append("{")
-    out.append("    /// <summary>One line per tag: 8 hex digits, VR (xs: US or SS by Pixel Representation), VM, keyword, R when retired.</summary>")
+    out.append("    /// <summary>One line per tag: 8 hex digits, VR (xs: US or SS by Pixel Representation; na: none), VM, keyword, R when retired.</summary>")
     out.append("    private const string SingleEntries =")
     lines = []
     for tag in sorted(singles):
         keyword, vr, vm, retired = singles[tag]
-        lines.append(f"{tag:08X} {vr} {vm} {keyword}{' R' if retired else ''}")
+        code = "na" if vr == "None" else vr  # every VR field is two characters
+        lines.append(f"{tag:08X} {code} {vm} {keyword}{' R' if retired else ''}")
     chunk = 40
     for i in range(0, len(lines), chunk):
         part = "\\n".join(lines[i:i + chunk]) + "\\n"
@@ -107,7 +108,10 @@ def write_tags(singles, source):
     out.append("// </auto-generated>")
     out.append("namespace Serimetry.Engine.Io.Dicom;")
     out.append("")
-    out.append("/// <summary>Tag constants named by their PS3.6 keyword (non-retired attributes).</summary>")
+    out.append("/// <summary>")
+    out.append("/// Tags named by their PS3.6 keyword (non-retired attributes). Expression-bodied properties rather")
+    out.append("/// than static fields, so using one tag does not run a 4,500-field static constructor.")
+    out.append("/// </summary>")
     out.append("public static partial class DicomTags")
     out.append("{")
     seen = set()
@@ -116,7 +120,7 @@ def write_tags(singles, source):
         if retired or keyword in seen or not re.match(r"^[A-Za-z_][A-Za-z0-9_]*$", keyword):
             continue
         seen.add(keyword)
-        out.append(f"    public static readonly DicomTag {keyword} = new(0x{tag >> 16:04X}, 0x{tag & 0xFFFF:04X});")
+        out.append(f"    public static DicomTag {keyword} => new(0x{tag >> 16:04X}, 0x{tag & 0xFFFF:04X});")
     out.append("}")
     with open(OUT_TAGS, "w", encoding="utf-8", newline="\n") as f:
         f.write("\n".join(out) + "\n")

@@ -50,14 +50,25 @@ internal static partial class DicomDictionary
     private static Dictionary<uint, DictionaryEntry> ParseSingles()
     {
         var d = new Dictionary<uint, DictionaryEntry>(5000);
-        foreach (var line in SingleEntries.AsSpan().EnumerateLines())
+        var text = SingleEntries.AsSpan();
+        while (!text.IsEmpty)
         {
-            if (line.IsEmpty) continue;
-            var s = line.ToString().Split(' ');
-            var tag = uint.Parse(s[0], NumberStyles.HexNumber, CultureInfo.InvariantCulture);
-            var usOrSs = s[1] == "xs";
-            var vr = s[1] switch { "None" => DicomVR.None, "xs" => DicomVR.US, _ => Enum.Parse<DicomVR>(s[1]) };
-            d[tag] = new DictionaryEntry(s[3], vr, s[2], s.Length > 4 && s[4] == "R") { UsOrSs = usOrSs };
+            var eol = text.IndexOf('\n');
+            var line = eol < 0 ? text : text[..eol];
+            text = eol < 0 ? [] : text[(eol + 1)..];
+            if (line.Length < 14) continue;
+            // "GGGGEEEE VR VM Keyword[ R]"
+            var tag = uint.Parse(line[..8], NumberStyles.HexNumber, CultureInfo.InvariantCulture);
+            var vrText = line.Slice(9, 2);
+            var rest = line[12..];
+            var vmEnd = rest.IndexOf(' ');
+            var vm = rest[..vmEnd].ToString();
+            var name = rest[(vmEnd + 1)..];
+            var retired = name.EndsWith(" R");
+            if (retired) name = name[..^2];
+            var usOrSs = vrText.SequenceEqual("xs");
+            var vr = usOrSs ? DicomVR.US : vrText.SequenceEqual("na") ? DicomVR.None : (DicomVR)((vrText[0] << 8) | vrText[1]);
+            d[tag] = new DictionaryEntry(name.ToString(), vr, vm, retired) { UsOrSs = usOrSs };
         }
         return d;
     }

@@ -16,7 +16,8 @@ public sealed partial class DicomFile
         while (true)
         {
             filled += ReadInto(fs, buffer, filled, log);
-            var isPrefix = filled < length;
+            // A short read means the file ended early (e.g. truncated while reading): parse what there is.
+            var isPrefix = filled < length && filled == buffer.Length;
             try
             {
                 var r = DicomFileParser.Parse(buffer.AsMemory(0, filled), isPrefix, true, log);
