@@ -6,6 +6,8 @@ public static class CodecRegistry
     /// <summary>All decoders written in the engine.</summary>
     public static IReadOnlyList<IFrameDecoder> All { get; } =
     [
+        new RleLosslessDecoder(),
+        new JpegLosslessDecoder(),
     ];
 
     /// <summary>The decoder for a transfer syntax, or null when the engine has none.</summary>
