@@ -16,6 +16,7 @@ public class ReferenceFileDecodeTests
     [
         "MR_small_RLE.dcm", "emri_small_RLE.dcm",
         "JPEG-LL.dcm", "JPEGLossless_1s_1f_u_16_12.dcm", "JPGLosslessP14SV1_1s_1f_8b.dcm",
+        "MR_small_jpeg_ls_lossless.dcm", "emri_small_jpeg_ls_lossless.dcm", "JLSL_08_07_0_1F.dcm", "JLSL_16_15_1_1F.dcm",
     ];
 
     [Theory]

@@ -8,6 +8,7 @@ public static class CodecRegistry
     [
         new RleLosslessDecoder(),
         new JpegLosslessDecoder(),
+        new JpegLsDecoder(),
     ];
 
     /// <summary>The decoder for a transfer syntax, or null when the engine has none.</summary>
