@@ -25,6 +25,16 @@ internal static class PixelDataReader
         throw new InvalidDataException("no Explicit VR LE Pixel Data element found");
     }
 
+    /// <summary>Transfer Syntax UID (0002,0010) from the File Meta group.</summary>
+    public static string TransferSyntax(string path)
+    {
+        var file = File.ReadAllBytes(path);
+        int at = file.AsSpan().IndexOf("\u0002\0\u0010\0UI"u8);
+        if (at < 0) throw new InvalidDataException(path + " has no Transfer Syntax UID");
+        int length = BinaryPrimitives.ReadUInt16LittleEndian(file.AsSpan(at + 6));
+        return System.Text.Encoding.ASCII.GetString(file, at + 8, length).TrimEnd('\0', ' ');
+    }
+
     /// <summary>Native (uncompressed) Pixel Data bytes.</summary>
     public static byte[] Native(string path)
     {

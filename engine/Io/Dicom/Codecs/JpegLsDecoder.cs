@@ -5,8 +5,8 @@ namespace Serimetry.Engine.Io.Dicom.Codecs;
 /// <summary>
 /// JPEG-LS Lossless (1.2.840.10008.1.2.4.80, DICOM PS3.5 A.4.3), ITU-T T.87: SOF55 frame, LSE preset coding
 /// parameters (C.2.4.1.1) and oversize dimensions, scans with NEAR = 0 that are not interleaved (ILV 0, one
-/// scan per component) or line-interleaved (ILV 1), 2..16-bit samples. Near-lossless coding (NEAR &gt; 0,
-/// transfer syntax 1.2.840.10008.1.2.4.81), sample interleaving, mapping tables, point transforms and
+/// scan per component), line-interleaved (ILV 1) or sample-interleaved (ILV 2), 2..16-bit samples. Near-lossless coding (NEAR &gt; 0,
+/// transfer syntax 1.2.840.10008.1.2.4.81), mapping tables, point transforms and
 /// restart intervals raise <see cref="Core.UnsupportedInputException"/>.
 /// </summary>
 public sealed class JpegLsDecoder : IFrameDecoder
@@ -16,8 +16,14 @@ public sealed class JpegLsDecoder : IFrameDecoder
     /// <summary>JPEG-LS Lossless Image Compression.</summary>
     public const string LosslessUid = "1.2.840.10008.1.2.4.80";
 
+    /// <summary>
+    /// JPEG-LS Lossy (Near-Lossless). Listed so that such frames get a precise error naming NEAR; a scan of this
+    /// syntax coded with NEAR = 0 is lossless and decodes.
+    /// </summary>
+    public const string NearLosslessUid = "1.2.840.10008.1.2.4.81";
+
     /// <inheritdoc />
-    public IReadOnlyList<string> TransferSyntaxUids { get; } = [LosslessUid];
+    public IReadOnlyList<string> TransferSyntaxUids { get; } = [LosslessUid, NearLosslessUid];
 
     /// <inheritdoc />
     public void Decode(ReadOnlySpan<byte> compressed, FrameInfo info, Span<byte> output)
@@ -139,9 +145,10 @@ public sealed class JpegLsDecoder : IFrameDecoder
             if (pointTransform != 0) throw CodecErrors.Unsupported(Codec, $"a point transform of {pointTransform} bits");
             if (interleave > 2 || (count > 1 && interleave == 0))
                 throw CodecErrors.Malformed(Codec, $"interleave mode {interleave} with {count} components", offset);
-            if (interleave == 2 && count > 1) throw CodecErrors.Unsupported(Codec, "sample-interleaved scans (ILV = 2)");
             var parameters = JpegLsCodingParameters.Resolve(_precision, _maxVal, _t1, _t2, _t3, _reset);
-            int next = DecodeLines(data, start, planes, parameters, writer);
+            int next = interleave == 2 && count > 1
+                ? DecodeSampleInterleaved(data, start, planes, parameters, writer)
+                : DecodeLines(data, start, planes, parameters, writer);
             foreach (int plane in planes) _decoded[plane] = true;
             return next;
         }
@@ -150,6 +157,35 @@ public sealed class JpegLsDecoder : IFrameDecoder
         {
             if (_rows != info.Rows) throw CodecErrors.Mismatch(Codec, "number of lines", info.Rows.ToString(), _rows.ToString());
             if (_columns != info.Columns) throw CodecErrors.Mismatch(Codec, "samples per line", info.Columns.ToString(), _columns.ToString());
+        }
+
+        private int DecodeSampleInterleaved(ReadOnlySpan<byte> data, int start, ReadOnlySpan<int> planes, JpegLsCodingParameters parameters, SampleWriter writer)
+        {
+            int width = info.Columns, count = planes.Length, stride = (width + 2) * count;
+            var lines = ArrayPool<int>.Shared.Rent(2 * stride);
+            try
+            {
+                Array.Clear(lines, 0, 2 * stride);
+                var decoder = new JpegLsScanDecoder(parameters, count);
+                var reader = new JpegLsBitReader(data, start);
+                for (int y = 0; y < info.Rows; y++)
+                {
+                    var prev = lines.AsSpan((y & 1) * stride, stride);
+                    var cur = lines.AsSpan((1 - (y & 1)) * stride, stride);
+                    for (int c = 0; c < count; c++)
+                    {
+                        prev[(width + 1) * count + c] = prev[width * count + c];
+                        cur[c] = prev[count + c];
+                    }
+                    decoder.DecodeInterleavedLine(ref reader, prev, cur, width, count);
+                    for (int c = 0; c < count; c++) writer.WriteRow(cur[(count + c)..], planes[c], y, 0, count);
+                }
+                return reader.FindNextMarker();
+            }
+            finally
+            {
+                ArrayPool<int>.Shared.Return(lines);
+            }
         }
 
         private int DecodeLines(ReadOnlySpan<byte> data, int start, ReadOnlySpan<int> planes, JpegLsCodingParameters parameters, SampleWriter writer)

@@ -29,9 +29,17 @@ internal readonly ref struct SampleWriter
         _planar = info.PlanarConfiguration == 1 && info.SamplesPerPixel > 1;
     }
 
-    /// <summary>Writes one row of one component; values are taken modulo 2^(Bits Allocated).</summary>
-    public void WriteRow(ReadOnlySpan<int> values, int component, int row, int shift)
+    /// <summary>
+    /// Writes one row of one component, reading every <paramref name="valueStride"/>-th value; values are
+    /// shifted left by <paramref name="shift"/> and taken modulo 2^(Bits Allocated).
+    /// </summary>
+    public void WriteRow(ReadOnlySpan<int> values, int component, int row, int shift, int valueStride = 1)
     {
+        if (valueStride != 1)
+        {
+            for (int x = 0; x < _columns; x++) WriteSample(component, row * _columns + x, values[x * valueStride] << shift);
+            return;
+        }
         int pixelStart = row * _columns;
         int step = _planar ? 1 : _samples;
         int first = _planar ? component * _rows * _columns + pixelStart : pixelStart * _samples + component;
@@ -48,6 +56,17 @@ internal readonly ref struct SampleWriter
                 for (int x = 0, o = first; x < values.Length; x++, o += step)
                     BinaryPrimitives.WriteInt32LittleEndian(_output.Slice(o * 4, 4), values[x] << shift);
                 break;
+        }
+    }
+
+    private void WriteSample(int component, int pixel, int value)
+    {
+        int o = _planar ? component * _rows * _columns + pixel : pixel * _samples + component;
+        switch (_bytesPerSample)
+        {
+            case 1: _output[o] = (byte)value; break;
+            case 2: BinaryPrimitives.WriteUInt16LittleEndian(_output.Slice(o * 2, 2), (ushort)value); break;
+            default: BinaryPrimitives.WriteInt32LittleEndian(_output.Slice(o * 4, 4), value); break;
         }
     }
 }
