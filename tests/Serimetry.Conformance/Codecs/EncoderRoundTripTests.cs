@@ -126,8 +126,11 @@ public class EncoderRoundTripTests
     internal static byte[] DecodeAll(string encoded, string source)
     {
         var row = ReferenceManifest.Row(source);
-        var info = row.Info();
-        int frames = row.Int("number_of_frames", 1);
+        return DecodeAll(encoded, row.Info(), row.Int("number_of_frames", 1));
+    }
+
+    internal static byte[] DecodeAll(string encoded, FrameInfo info, int frames)
+    {
         var decoder = CodecRegistry.Find(PixelDataReader.TransferSyntax(encoded));
         Assert.NotNull(decoder);
         var fragments = PixelDataReader.Frames(encoded, frames);
