@@ -68,6 +68,8 @@ public sealed class JpegLosslessDecoder : IFrameDecoder
                     break;
                 case >= 0xC0 and <= 0xCF when marker is not (0xC4 or 0xC8 or 0xCC):
                     throw CodecErrors.Unsupported(Codec, $"{SofName(marker)} (marker 0xFF{marker:X2}); this decoder reads lossless Process 14 (SOF3) only");
+                case JpegMarkerReader.SofLs:
+                    throw CodecErrors.Unsupported(Codec, "a JPEG-LS (T.87) frame in a JPEG lossless transfer syntax");
                 case >= 0xD0 and <= 0xD7:
                     throw CodecErrors.Malformed(Codec, $"restart marker RST{marker - 0xD0} outside a scan", at);
                 case 0x01:

@@ -89,6 +89,7 @@ public sealed class JpegLsDecoder : IFrameDecoder
             if (_precision is < 2 or > 16) throw CodecErrors.Malformed(Codec, $"sample precision {_precision} (T.87 allows 2..16)", offset);
             if (_precision > info.BitsAllocated) throw CodecErrors.Mismatch(Codec, "sample precision", $"at most Bits Allocated {info.BitsAllocated}", _precision.ToString());
             if (count != info.SamplesPerPixel) throw CodecErrors.Mismatch(Codec, "number of components", info.SamplesPerPixel.ToString(), count.ToString());
+            if (count > 4) throw CodecErrors.Unsupported(Codec, $"{count} components (at most 4)");
             if (p.Length < 6 + 3 * count) throw CodecErrors.Malformed(Codec, "the SOF55 segment is shorter than its component list", offset);
             if (rows != 0) _rows = rows;      // 0 here means: given by an LSE oversize segment (T.87 C.2.4.1.4)
             if (columns != 0) _columns = columns;

@@ -31,6 +31,8 @@ public sealed class RleLosslessDecoder : IFrameDecoder
 
         int bytesPerSample = info.BitsAllocated / 8;
         int expectedSegments = info.SamplesPerPixel * bytesPerSample;
+        if (expectedSegments > 15)
+            throw CodecErrors.Unsupported(Codec, $"{expectedSegments} byte segments (the RLE header holds at most 15)");
         uint segmentCount = BinaryPrimitives.ReadUInt32LittleEndian(compressed);
         if (segmentCount != expectedSegments)
             throw CodecErrors.Mismatch(Codec, "number of segments", $"{expectedSegments} (Samples per Pixel x Bits Allocated / 8)", segmentCount.ToString());
