@@ -24,6 +24,52 @@ public class FullRangeRoundTripTests
         return data;
     }
 
+    /// <summary>
+    /// 32-bit samples: MR_small.dcm re-labelled in place as 32 rows of 64 signed 32-bit samples (Bits Allocated /
+    /// Stored 32, High Bit 31, same 8192 bytes) filled with seeded full-range noise, RLE-encoded by dcmtk and GDCM.
+    /// </summary>
+    [Theory]
+    [InlineData("dcmcrle")]
+    [InlineData("gdcmconv --rle")]
+    public void ThirtyTwoBitRleRoundTrips(string command)
+    {
+        var dir = ExternalTool.ScratchFolder();
+        try
+        {
+            var source = ReferenceManifest.FilePath("MR_small.dcm");
+            var file = File.ReadAllBytes(source);
+            var native = PixelDataReader.Native(source);
+            int start = file.AsSpan().LastIndexOf(native);
+            PatchUs(file, 0x0010, 32);
+            PatchUs(file, 0x0100, 32);
+            PatchUs(file, 0x0101, 32);
+            PatchUs(file, 0x0102, 31);
+            new Random(32).NextBytes(file.AsSpan(start, native.Length));
+            for (int i = 0; i < 64; i++) file[start + 4 * i + 3] = 0; // a zero run in the top byte plane
+            var original = Path.Combine(dir, "thirty-two.dcm");
+            var encoded = Path.Combine(dir, "encoded.dcm");
+            File.WriteAllBytes(original, file);
+            var words = command.Split(' ');
+            ExternalTool.Run(words[0], [.. words[1..], original, encoded]);
+            var info = new Serimetry.Engine.Io.Dicom.Codecs.FrameInfo(32, 64, 1, 32, 32, 1, 0);
+            Assert.Equal(PixelDataReader.Native(original), EncoderRoundTripTests.DecodeAll(encoded, info, 1));
+        }
+        finally
+        {
+            Directory.Delete(dir, true);
+        }
+    }
+
+    /// <summary>Overwrites the value of an Explicit VR LE (0028,xxxx) US element.</summary>
+    private static void PatchUs(byte[] file, int element, int value)
+    {
+        byte[] tag = [0x28, 0x00, (byte)element, (byte)(element >> 8), (byte)'U', (byte)'S', 2, 0];
+        int at = file.AsSpan().IndexOf(tag);
+        Assert.True(at > 0, $"(0028,{element:X4}) not found");
+        file[at + 8] = (byte)value;
+        file[at + 9] = (byte)(value >> 8);
+    }
+
     [Theory]
     [MemberData(nameof(Cases))]
     public void ExtremeSixteenBitValuesRoundTrip(string pattern, string command)
