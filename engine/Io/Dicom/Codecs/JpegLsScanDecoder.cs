@@ -1,3 +1,5 @@
+using System.Numerics;
+
 namespace Serimetry.Engine.Io.Dicom.Codecs;
 
 /// <summary>
@@ -22,6 +24,7 @@ internal sealed class JpegLsScanDecoder
     private readonly int[] _n = new int[RegularContexts + 2];
     private readonly int[] _nn = new int[2];
     private readonly int[] _runIndex;
+    private readonly sbyte[] _quantized;
 
     public JpegLsScanDecoder(JpegLsCodingParameters parameters, int components)
     {
@@ -33,6 +36,8 @@ internal sealed class JpegLsScanDecoder
         int a = Math.Max(2, (_range + 32) >> 6);
         Array.Fill(_a, a);
         Array.Fill(_n, 1);
+        _quantized = new sbyte[2 * parameters.T3 + 1];
+        for (int d = -parameters.T3; d <= parameters.T3; d++) _quantized[d + parameters.T3] = QuantizeSlow(d, parameters);
     }
 
     /// <summary>Decodes one line of component <paramref name="component"/>: samples go to cur[1..width].</summary>
@@ -130,17 +135,34 @@ internal sealed class JpegLsScanDecoder
         return count;
     }
 
+    /// <summary>Gradient quantisation of T.87 A.3.3 (NEAR = 0) through a table over -T3..T3.</summary>
     private int Quantize(int d)
     {
         if (d <= -_p.T3) return -4;
-        if (d <= -_p.T2) return -3;
-        if (d <= -_p.T1) return -2;
+        if (d >= _p.T3) return 4;
+        return _quantized[d + _p.T3];
+    }
+
+    private static sbyte QuantizeSlow(int d, JpegLsCodingParameters p)
+    {
+        if (d <= -p.T3) return -4;
+        if (d <= -p.T2) return -3;
+        if (d <= -p.T1) return -2;
         if (d < 0) return -1;
         if (d == 0) return 0;
-        if (d < _p.T1) return 1;
-        if (d < _p.T2) return 2;
-        if (d < _p.T3) return 3;
+        if (d < p.T1) return 1;
+        if (d < p.T2) return 2;
+        if (d < p.T3) return 3;
         return 4;
+    }
+
+    /// <summary>Golomb parameter: the least k with N &lt;&lt; k &gt;= A (T.87 A.5.1), capped for corrupt data.</summary>
+    private static int GolombK(int n, int a)
+    {
+        if (n >= a) return 0;
+        int k = BitOperations.Log2((uint)(a / n));
+        if ((n << k) < a) k++;
+        return Math.Min(k, 24);
     }
 
     private int DecodeRegular(ref JpegLsBitReader reader, int q, int ra, int rb, int rc)
@@ -151,8 +173,7 @@ internal sealed class JpegLsScanDecoder
         if (px < 0) px = 0;
         else if (px > _p.MaxVal) px = _p.MaxVal;
 
-        int k = 0;
-        while ((_n[q] << k) < _a[q] && k < 24) k++;
+        int k = GolombK(_n[q], _a[q]);
         int mapped = DecodeGolomb(ref reader, k, _limit);
         int error = k == 0 && 2 * _b[q] <= -_n[q]
             ? ((mapped & 1) != 0 ? (mapped - 1) >> 1 : -(mapped >> 1) - 1)
@@ -224,8 +245,7 @@ internal sealed class JpegLsScanDecoder
     {
         int q = RegularContexts + type;
         int temp = type == 1 ? _a[q] + (_n[q] >> 1) : _a[q];
-        int k = 0;
-        while ((_n[q] << k) < temp && k < 24) k++;
+        int k = GolombK(_n[q], temp);
         int mapped = DecodeGolomb(ref reader, k, _limit - J[runIndex] - 1);
         int t = mapped + type;
         int map = t & 1;
