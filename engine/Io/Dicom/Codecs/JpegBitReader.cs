@@ -50,6 +50,13 @@ internal ref struct JpegBitReader
         return (int)(_buffer >> (64 - count));
     }
 
+    /// <summary>The next 32 bits without consuming them (zero bits past the end of the segment).</summary>
+    public uint Peek32()
+    {
+        if (_bits < 32) Fill();
+        return (uint)(_buffer >> 32);
+    }
+
     public void Skip(int count)
     {
         _buffer <<= count;

@@ -63,25 +63,23 @@ internal sealed class JpegHuffmanTable
         return new JpegHuffmanTable(counts, payload.Slice(at + 17, total), codec, offset + at);
     }
 
-    /// <summary>Decodes one symbol (T.81 F.2.2.3 DECODE).</summary>
-    public int Decode(ref JpegBitReader reader, string codec)
+    /// <summary>
+    /// DECODE of T.81 F.2.2.3 on a 16-bit window: the symbol whose code starts it and the code's length;
+    /// no match is a format error.
+    /// </summary>
+    public int Match(int window16, out int length, string codec, int position)
     {
-        int bits16 = reader.Peek(16);
-        int entry = _lookup[bits16 >> (16 - LookupBits)];
+        int entry = _lookup[window16 >> (16 - LookupBits)];
         if (entry != 0)
         {
-            reader.Skip(entry >> 8);
+            length = entry >> 8;
             return entry & 0xFF;
         }
-        for (int length = LookupBits + 1; length <= 16; length++)
+        for (length = LookupBits + 1; length <= 16; length++)
         {
-            int code = bits16 >> (16 - length);
-            if (_maxCode[length] >= 0 && code <= _maxCode[length])
-            {
-                reader.Skip(length);
-                return _values[_valuePointer[length] + code - _minCode[length]];
-            }
+            int code = window16 >> (16 - length);
+            if (_maxCode[length] >= 0 && code <= _maxCode[length]) return _values[_valuePointer[length] + code - _minCode[length]];
         }
-        throw CodecErrors.Malformed(codec, "a bit pattern matches no code of the Huffman table", reader.Position);
+        throw CodecErrors.Malformed(codec, "a bit pattern matches no code of the Huffman table", position);
     }
 }

@@ -67,14 +67,20 @@ internal static class JpegLosslessScan
         };
     }
 
+    /// <summary>One Huffman-coded difference: category SSSS then SSSS extra bits (T.81 F.2.2.1 EXTEND), read from one window.</summary>
     private static int DecodeDifference(ref JpegBitReader reader, JpegHuffmanTable table, string codec)
     {
-        int category = table.Decode(ref reader, codec);
-        if (category == 0) return 0;
-        if (category == 16) return 32768;
+        uint window = reader.Peek32();
+        int category = table.Match((int)(window >> 16), out int length, codec, reader.Position);
+        if (category == 0 || category == 16)
+        {
+            reader.Skip(length);
+            return category == 0 ? 0 : 32768;
+        }
         if (category > 16)
             throw CodecErrors.Malformed(codec, $"difference category SSSS = {category} (lossless allows 0..16)", reader.Position);
-        int bits = reader.Read(category);
+        int bits = (int)((window << length) >> (32 - category));
+        reader.Skip(length + category);
         return bits < 1 << (category - 1) ? bits - (1 << category) + 1 : bits;
     }
 }
