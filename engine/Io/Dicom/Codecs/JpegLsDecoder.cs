@@ -58,6 +58,9 @@ public sealed class JpegLsDecoder : IFrameDecoder
                     break;
                 case >= 0xC0 and <= 0xCF when marker is not (0xC4 or 0xC8 or 0xCC):
                     throw CodecErrors.Unsupported(Codec, $"a JPEG (T.81) frame marker 0xFF{marker:X2} in a JPEG-LS transfer syntax");
+                case 0xE8:
+                    RefuseColourTransform(markers.ReadSegment(marker));
+                    break;
                 case 0x01:
                     break;
                 case >= 0xD0 and <= 0xD7:
@@ -67,6 +70,16 @@ public sealed class JpegLsDecoder : IFrameDecoder
                     break;
             }
         }
+    }
+
+    /// <summary>
+    /// An APP8 "mrfx" segment (an extension some JPEG-LS coders write, outside T.87) with a non-zero id announces
+    /// a reversible colour transform of the samples; decoding without undoing it would give wrong colours.
+    /// </summary>
+    private static void RefuseColourTransform(ReadOnlySpan<byte> payload)
+    {
+        if (payload.Length >= 5 && payload[..4].SequenceEqual("mrfx"u8) && payload[4] != 0)
+            throw CodecErrors.Unsupported(Codec, $"a colour transform (APP8 mrfx, type {payload[4]})");
     }
 
     /// <summary>Frame header, preset parameters and per-component progress of one frame.</summary>
