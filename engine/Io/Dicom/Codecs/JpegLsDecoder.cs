@@ -110,7 +110,7 @@ public sealed class JpegLsDecoder : IFrameDecoder
             for (int c = 0; c < count; c++)
             {
                 _componentIds[c] = p[6 + 3 * c];
-                if (p[7 + 3 * c] != 0x11) throw CodecErrors.Unsupported(Codec, "component sub-sampling (sampling factors other than 1x1)");
+                if (count > 1 && p[7 + 3 * c] != 0x11) throw CodecErrors.Unsupported(Codec, "component sub-sampling (sampling factors other than 1x1)");
             }
             _decoded = new bool[count];
         }
