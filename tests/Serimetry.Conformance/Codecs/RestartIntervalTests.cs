@@ -58,7 +58,7 @@ public class RestartIntervalTests
     }
 
     /// <summary>Replaces the fragments after the Basic Offset Table of the last Pixel Data element by one fragment.</summary>
-    private static byte[] ReplaceSingleFragment(byte[] file, byte[] stream)
+    internal static byte[] ReplaceSingleFragment(byte[] file, byte[] stream)
     {
         int at = file.AsSpan().LastIndexOf([(byte)0xE0, (byte)0x7F, (byte)0x10, (byte)0x00, (byte)'O', (byte)'B']);
         int table = at + 12;
