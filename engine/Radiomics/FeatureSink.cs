@@ -1,0 +1,28 @@
+namespace Serimetry.Engine.Radiomics;
+
+/// <summary>Collects feature values in computation order (deterministic output order).</summary>
+internal sealed class FeatureSink
+{
+    private readonly List<FeatureValue> _values = [];
+
+    public IReadOnlyList<FeatureValue> Values => _values;
+
+    public void Add(string family, string feature, string code, string aggregation, double value) =>
+        _values.Add(new FeatureValue(family, feature, code, aggregation, value));
+}
+
+/// <summary>Family names used in <see cref="FeatureValue.Family"/> and the CSV output.</summary>
+public static class FamilyNames
+{
+    public const string Morphology = "morphology";
+    public const string LocalIntensity = "local_intensity";
+    public const string IntensityStatistics = "intensity_statistics";
+    public const string IntensityHistogram = "intensity_histogram";
+    public const string IntensityVolumeHistogram = "intensity_volume_histogram";
+    public const string Glcm = "glcm";
+    public const string Glrlm = "glrlm";
+    public const string Glszm = "glszm";
+    public const string Gldzm = "gldzm";
+    public const string Ngtdm = "ngtdm";
+    public const string Ngldm = "ngldm";
+}
