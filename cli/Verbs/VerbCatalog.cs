@@ -5,5 +5,6 @@ internal static class VerbCatalog
 {
     public static IReadOnlyList<IVerb> All { get; } =
     [
+        new RadiomicsVerb(),
     ];
 }
