@@ -34,7 +34,7 @@ public sealed record RadiomicsSettings
     /// Moran's I and Geary's C cost O(N²) in ROI voxels; above this many voxels they are computed on a
     /// deterministic regular subsample of this many voxels (IBSI 3.1.24 allows approximation).
     /// </summary>
-    public int SpatialAutocorrelationMaxVoxels { get; init; } = 8000;
+    public int SpatialAutocorrelationMaxVoxels { get; init; } = 5000;
 }
 
 /// <summary>Resampling to a new grid (IBSI 2.4, "align grid centres").</summary>

@@ -6,13 +6,15 @@ namespace Serimetry.Engine.Radiomics.Intensity;
 /// Local intensity features (IBSI 3.2, family 9ST6): the mean intensity in a 1 cm³ sphere centred on a
 /// voxel (all image voxels whose centres lie within the sphere count, ROI or not). Local peak: the
 /// sphere around the ROI's maximum-intensity voxel(s), highest mean if several; global peak: the highest
-/// such mean over all ROI voxels. Non-finite intensities in a sphere are skipped.
+/// such mean over all ROI voxels. Non-finite intensities in a sphere are skipped. The sphere is summed as x-runs
+/// over prefix sums, so the cost per ROI voxel is the number of runs, not the number of sphere voxels.
 /// </summary>
 internal static class LocalIntensity
 {
     public static void Compute(RoiData roi, FeatureSink sink)
     {
-        var (dx, dy, dz) = SphereOffsets(roi);
+        var rows = SphereRows(roi);
+        var (sum, count) = RowPrefixSums(roi);
         double max = double.NegativeInfinity;
         for (int n = 0; n < roi.Count; n++)
             if (roi.InRoi[n] != 0 && roi.Intensity[n] > max) max = roi.Intensity[n];
@@ -22,7 +24,7 @@ internal static class LocalIntensity
         for (int x = 0; x < roi.Nx; x++, n++)
         {
             if (roi.InRoi[n] == 0) continue;
-            double mean = SphereMean(roi, x, y, z, dx, dy, dz);
+            double mean = SphereMean(roi, x, y, z, rows, sum, count);
             if (mean > global) global = mean;
             if (roi.Intensity[n] == max && mean > local) local = mean;
         }
@@ -30,34 +32,59 @@ internal static class LocalIntensity
         sink.Add(FamilyNames.LocalIntensity, "Global intensity peak", "0F91", IbsiAggregation.Volume3D, global);
     }
 
-    private static (int[] Dx, int[] Dy, int[] Dz) SphereOffsets(RoiData roi)
+    /// <summary>The sphere as x-runs: for each (dy, dz) offset, the half-width in x of voxel centres inside it.</summary>
+    private static (int Dy, int Dz, int HalfWidth)[] SphereRows(RoiData roi)
     {
         double r = RoiPreparer.PeakRadiusMm;
         var s = roi.SpacingMm;
-        int mx = (int)Math.Ceiling(r / s.X), my = (int)Math.Ceiling(r / s.Y), mz = (int)Math.Ceiling(r / s.Z);
-        List<int> dx = [], dy = [], dz = [];
+        int my = (int)Math.Ceiling(r / s.Y), mz = (int)Math.Ceiling(r / s.Z);
+        var rows = new List<(int, int, int)>();
         for (int k = -mz; k <= mz; k++)
         for (int j = -my; j <= my; j++)
-        for (int i = -mx; i <= mx; i++)
         {
-            double px = i * s.X, py = j * s.Y, pz = k * s.Z;
-            if (px * px + py * py + pz * pz > r * r) continue;
-            dx.Add(i); dy.Add(j); dz.Add(k);
+            double rest = r * r - (j * s.Y) * (j * s.Y) - (k * s.Z) * (k * s.Z);
+            if (rest < 0) continue;
+            int w = (int)Math.Floor(Math.Sqrt(rest) / s.X + 1e-9);
+            while ((w + 1) * s.X * (w + 1) * s.X <= rest) w++;
+            while (w > 0 && w * s.X * w * s.X > rest) w--;
+            rows.Add((j, k, w));
         }
-        return ([.. dx], [.. dy], [.. dz]);
+        return [.. rows];
     }
 
-    private static double SphereMean(RoiData roi, int x, int y, int z, int[] dx, int[] dy, int[] dz)
+    // Prefix sums along x of the finite intensities and their count; row r of length Nx+1 starts at r·(Nx+1).
+    private static (double[] Sum, int[] Count) RowPrefixSums(RoiData roi)
     {
-        double sum = 0; int count = 0;
-        for (int o = 0; o < dx.Length; o++)
+        int stride = roi.Nx + 1, rowCount = roi.Ny * roi.Nz;
+        var sum = new double[stride * rowCount];
+        var count = new int[stride * rowCount];
+        for (int row = 0; row < rowCount; row++)
         {
-            int xx = x + dx[o], yy = y + dy[o], zz = z + dz[o];
-            if ((uint)xx >= (uint)roi.Nx || (uint)yy >= (uint)roi.Ny || (uint)zz >= (uint)roi.Nz) continue;
-            double v = roi.Intensity[roi.Index(xx, yy, zz)];
-            if (!double.IsFinite(v)) continue;
-            sum += v; count++;
+            int src = row * roi.Nx, dst = row * stride;
+            for (int x = 0; x < roi.Nx; x++)
+            {
+                double v = roi.Intensity[src + x];
+                bool ok = double.IsFinite(v);
+                sum[dst + x + 1] = sum[dst + x] + (ok ? v : 0);
+                count[dst + x + 1] = count[dst + x] + (ok ? 1 : 0);
+            }
         }
-        return sum / count;
+        return (sum, count);
+    }
+
+    private static double SphereMean(RoiData roi, int x, int y, int z, (int Dy, int Dz, int HalfWidth)[] rows, double[] sum, int[] count)
+    {
+        int stride = roi.Nx + 1;
+        double total = 0; int n = 0;
+        foreach (var (dy, dz, w) in rows)
+        {
+            int yy = y + dy, zz = z + dz;
+            if ((uint)yy >= (uint)roi.Ny || (uint)zz >= (uint)roi.Nz) continue;
+            int x0 = Math.Max(0, x - w), x1 = Math.Min(roi.Nx, x + w + 1);
+            int row = (yy + roi.Ny * zz) * stride;
+            total += sum[row + x1] - sum[row + x0];
+            n += count[row + x1] - count[row + x0];
+        }
+        return total / n;
     }
 }

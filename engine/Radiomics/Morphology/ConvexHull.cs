@@ -3,35 +3,43 @@ namespace Serimetry.Engine.Radiomics.Morphology;
 /// <summary>
 /// Convex hull of the mesh vertices by incremental insertion with exact integer orientation tests on the
 /// doubled index coordinates (so no rounding can break the hull), then scaled to mm for volume and area.
-/// Points not extreme along their x, y and z grid lines are dropped first: they cannot be hull vertices.
+/// Also returns the hull vertices (doubled index units): the maximum 3D diameter is attained between two of them.
 /// </summary>
 internal static class ConvexHull
 {
-    public static (double VolumeMm3, double AreaMm2) Measure(List<long> doubled, Core.Vec3 spacingMm)
+    public static (double VolumeMm3, double AreaMm2, long[] Vertices) Measure(List<long> doubled, Core.Vec3 spacingMm)
     {
         var pts = Candidates(doubled);
         int n = pts.Length / 3;
-        if (n < 4) return (double.NaN, double.NaN);
+        if (n < 4) return (double.NaN, double.NaN, pts);
         var faces = Initial(pts, n);
-        if (faces is null) return (double.NaN, double.NaN);
+        if (faces is null) return (double.NaN, double.NaN, pts);
         var visibleEdges = new HashSet<long>();
         var next = new List<int>();
+        var visible = new bool[64];
         for (int p = 0; p < n; p++)
         {
-            visibleEdges.Clear();
+            int faceCount = faces.Count / 3;
+            if (visible.Length < faceCount) visible = new bool[2 * faceCount];
             bool any = false;
-            for (int f = 0; f < faces.Count; f += 3)
+            for (int f = 0; f < faceCount; f++)
             {
-                if (Orient(pts, faces[f], faces[f + 1], faces[f + 2], p) <= 0) continue;
-                any = true;
-                visibleEdges.Add(Key(faces[f], faces[f + 1])); visibleEdges.Add(Key(faces[f + 1], faces[f + 2])); visibleEdges.Add(Key(faces[f + 2], faces[f]));
+                visible[f] = Orient(pts, faces[3 * f], faces[3 * f + 1], faces[3 * f + 2], p) > 0;
+                any |= visible[f];
             }
             if (!any) continue;
-            next.Clear();
-            for (int f = 0; f < faces.Count; f += 3)
+            visibleEdges.Clear();
+            for (int f = 0; f < faceCount; f++)
             {
-                int a = faces[f], b = faces[f + 1], c = faces[f + 2];
-                if (Orient(pts, a, b, c, p) <= 0) { next.Add(a); next.Add(b); next.Add(c); continue; }
+                if (!visible[f]) continue;
+                int a = faces[3 * f], b = faces[3 * f + 1], c = faces[3 * f + 2];
+                visibleEdges.Add(Key(a, b)); visibleEdges.Add(Key(b, c)); visibleEdges.Add(Key(c, a));
+            }
+            next.Clear();
+            for (int f = 0; f < faceCount; f++)
+            {
+                int a = faces[3 * f], b = faces[3 * f + 1], c = faces[3 * f + 2];
+                if (!visible[f]) { next.Add(a); next.Add(b); next.Add(c); continue; }
                 // Horizon edges: edges of a visible face whose neighbour across the edge is not visible.
                 if (!visibleEdges.Contains(Key(b, a))) { next.Add(a); next.Add(b); next.Add(p); }
                 if (!visibleEdges.Contains(Key(c, b))) { next.Add(b); next.Add(c); next.Add(p); }
@@ -39,7 +47,17 @@ internal static class ConvexHull
             }
             (faces, next) = (next, faces);
         }
-        return Integrate(pts, faces, spacingMm);
+        var (volume, area) = Integrate(pts, faces, spacingMm);
+        return (volume, area, HullVertices(pts, faces));
+    }
+
+    private static long[] HullVertices(long[] p, List<int> faces)
+    {
+        var used = new SortedSet<int>(faces);
+        var result = new long[3 * used.Count];
+        int k = 0;
+        foreach (int i in used) { result[k++] = p[3 * i]; result[k++] = p[3 * i + 1]; result[k++] = p[3 * i + 2]; }
+        return result;
     }
 
     private static long Key(int a, int b) => ((long)a << 32) | (uint)b;
@@ -90,7 +108,8 @@ internal static class ConvexHull
         return (volume6 / 6.0, area2 / 2.0);
     }
 
-    // Keep only points that are the lowest or highest on each of their three axis-parallel grid lines.
+    // A vertex of the 3D hull is also a vertex of the 2D hull of the points in its own x, y and z planes, so
+    // points failing any of those three planar hulls are dropped before the (quadratic) 3D insertion.
     private static long[] Candidates(List<long> d)
     {
         int n = d.Count / 3;
@@ -98,25 +117,66 @@ internal static class ConvexHull
         Array.Fill(keep, true);
         for (int axis = 0; axis < 3; axis++)
         {
-            var lo = new Dictionary<(long, long), long>();
-            var hi = new Dictionary<(long, long), long>();
-            for (int i = 0; i < n; i++)
+            var order = new int[n];
+            for (int i = 0; i < n; i++) order[i] = i;
+            int u = (axis + 1) % 3, v = (axis + 2) % 3;
+            Array.Sort(order, (a, b) =>
             {
-                var line = (d[3 * i + (axis + 1) % 3], d[3 * i + (axis + 2) % 3]);
-                long v = d[3 * i + axis];
-                lo[line] = lo.TryGetValue(line, out long l) ? Math.Min(l, v) : v;
-                hi[line] = hi.TryGetValue(line, out long h) ? Math.Max(h, v) : v;
-            }
-            for (int i = 0; i < n; i++)
+                int c = d[3 * a + axis].CompareTo(d[3 * b + axis]);
+                if (c != 0) return c;
+                c = d[3 * a + u].CompareTo(d[3 * b + u]);
+                return c != 0 ? c : d[3 * a + v].CompareTo(d[3 * b + v]);
+            });
+            var onHull = new bool[n];
+            for (int start = 0; start < n;)
             {
-                var line = (d[3 * i + (axis + 1) % 3], d[3 * i + (axis + 2) % 3]);
-                long v = d[3 * i + axis];
-                if (v != lo[line] && v != hi[line]) keep[i] = false;
+                int end = start;
+                while (end < n && d[3 * order[end] + axis] == d[3 * order[start] + axis]) end++;
+                MarkPlanarHull(d, order.AsSpan(start, end - start), u, v, onHull);
+                start = end;
             }
+            for (int i = 0; i < n; i++) keep[i] &= onHull[i];
         }
-        var result = new List<long>();
-        for (int i = 0; i < n; i++)
-            if (keep[i]) { result.Add(d[3 * i]); result.Add(d[3 * i + 1]); result.Add(d[3 * i + 2]); }
-        return [.. result];
+        // Farthest from the centroid first: the hull then grows quickly and later points are mostly inside.
+        double cx = 0, cy = 0, cz = 0;
+        for (int i = 0; i < n; i++) { cx += d[3 * i]; cy += d[3 * i + 1]; cz += d[3 * i + 2]; }
+        cx /= n; cy /= n; cz /= n;
+        var kept = new List<int>();
+        for (int i = 0; i < n; i++) if (keep[i]) kept.Add(i);
+        var dist = kept.Select(i => -(Sq(d[3 * i] - cx) + Sq(d[3 * i + 1] - cy) + Sq(d[3 * i + 2] - cz))).ToArray();
+        var idx = kept.ToArray();
+        Array.Sort(dist, idx);
+        var result = new long[3 * idx.Length];
+        for (int t = 0; t < idx.Length; t++)
+        {
+            result[3 * t] = d[3 * idx[t]]; result[3 * t + 1] = d[3 * idx[t] + 1]; result[3 * t + 2] = d[3 * idx[t] + 2];
+        }
+        return result;
     }
+
+    private static double Sq(double x) => x * x;
+
+    // Andrew's monotone chain on points sorted by (u, v); collinear boundary points are kept (conservative).
+    private static void MarkPlanarHull(List<long> d, ReadOnlySpan<int> sorted, int u, int v, bool[] onHull)
+    {
+        int m = sorted.Length;
+        if (m <= 2) { foreach (int i in sorted) onHull[i] = true; return; }
+        var chain = new int[2 * m];
+        int k = 0;
+        for (int pass = 0; pass < 2; pass++)
+        {
+            int floor = k;
+            for (int t = 0; t < m; t++)
+            {
+                int p = pass == 0 ? sorted[t] : sorted[m - 1 - t];
+                while (k >= floor + 2 && Cross(d, chain[k - 2], chain[k - 1], p, u, v) < 0) k--;
+                chain[k++] = p;
+            }
+            k--;
+        }
+        for (int t = 0; t < k; t++) onHull[chain[t]] = true;
+    }
+
+    private static long Cross(List<long> d, int o, int a, int b, int u, int v) =>
+        (d[3 * a + u] - d[3 * o + u]) * (d[3 * b + v] - d[3 * o + v]) - (d[3 * a + v] - d[3 * o + v]) * (d[3 * b + u] - d[3 * o + u]);
 }

@@ -27,7 +27,9 @@ internal static class MorphologyFeatures
         Add("Asphericity", "25C7", Math.Cbrt(a * a * a / (36 * Math.PI * v * v)) - 1);
         Add("Centre of mass shift", "KLMA", CentreOfMassShift(roi));
         var pts = ToMm(mesh.DoubledVertices, sp);
-        Add("Maximum 3D diameter", "L0JK", MaxDiameter(pts));
+        var hull = ConvexHull.Measure(mesh.DoubledVertices, sp);
+        // The farthest pair of mesh vertices are both convex-hull vertices (IBSI 3.1.11).
+        Add("Maximum 3D diameter", "L0JK", MaxDiameter(ToMm([.. hull.Vertices], sp)));
         var lambda = PrincipalVariances(roi);
         Add("Major axis length", "TDIC", 4 * Math.Sqrt(lambda[0]));
         Add("Minor axis length", "P9VJ", 4 * Math.Sqrt(lambda[1]));
@@ -40,7 +42,6 @@ internal static class MorphologyFeatures
         double ea = 2 * Math.Sqrt(lambda[0]), eb = 2 * Math.Sqrt(lambda[1]), ec = 2 * Math.Sqrt(lambda[2]);
         Add("Volume density (approximate enclosing ellipsoid)", "6BDE", v / (4 * Math.PI * ea * eb * ec / 3));
         Add("Area density (approximate enclosing ellipsoid)", "RDD2", a / EllipsoidArea(ea, eb, ec));
-        var hull = ConvexHull.Measure(mesh.DoubledVertices, sp);
         Add("Volume density (convex hull)", "R3ER", v / hull.VolumeMm3);
         Add("Area density (convex hull)", "7T7F", a / hull.AreaMm2);
         Add("Integrated intensity", "99N0", MeanIntensity(roi) * v);

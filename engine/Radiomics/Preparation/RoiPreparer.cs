@@ -19,17 +19,21 @@ internal static class RoiPreparer
         ArgumentNullException.ThrowIfNull(settings);
         image.Geometry.RequireCongruent(mask.Geometry, "radiomics image and mask");
 
-        var geometry = image.Geometry;
+        if (settings.Resampling is not { } rs)
+        {
+            // Native grid: only the ROI's bounding box (plus margin) is converted.
+            var voxels = image.Voxels;
+            var labels = mask.Voxels;
+            return Crop(image.Geometry, n => voxels[n], n => labels[n] != 0, settings);
+        }
         var values = new double[image.Voxels.Length];
         for (int n = 0; n < values.Length; n++) values[n] = image.Voxels[n];
         var roi = new byte[mask.Voxels.Length];
         for (int n = 0; n < roi.Length; n++) roi[n] = mask.Voxels[n] != 0 ? (byte)1 : (byte)0;
         RequireNonEmpty(roi, "mask", "the mask has no voxel inside the ROI (all zero)");
-
-        if (settings.Resampling is { } rs)
-            (geometry, values, roi) = Resample(geometry, values, roi, rs);
-        RequireNonEmpty(roi, "mask", "the ROI vanished after resampling (fewer than half-covered voxels)");
-        return Crop(geometry, values, roi, settings);
+        var (geometry, resampled, resampledRoi) = Resample(image.Geometry, values, roi, rs);
+        RequireNonEmpty(resampledRoi, "mask", "the ROI vanished after resampling (fewer than half-covered voxels)");
+        return Crop(geometry, n => resampled[n], n => resampledRoi[n] != 0, settings);
     }
 
     private static (Geometry, double[], byte[]) Resample(Geometry g, double[] values, byte[] roi, ResamplingSettings rs)
@@ -49,7 +53,7 @@ internal static class RoiPreparer
         return (target, newValues, newRoi);
     }
 
-    private static RoiData Crop(Geometry g, double[] values, byte[] roi, RadiomicsSettings settings)
+    private static RoiData Crop(Geometry g, Func<int, double> valueAt, Func<int, bool> inRoiAt, RadiomicsSettings settings)
     {
         int sx = g.Size.X, sy = g.Size.Y, sz = g.Size.Z;
         int x0 = sx, y0 = sy, z0 = sz, x1 = -1, y1 = -1, z1 = -1;
@@ -57,11 +61,14 @@ internal static class RoiPreparer
         for (int y = 0; y < sy; y++)
         for (int x = 0; x < sx; x++, n++)
         {
-            if (roi[n] == 0) continue;
+            if (!inRoiAt(n)) continue;
             x0 = Math.Min(x0, x); x1 = Math.Max(x1, x);
             y0 = Math.Min(y0, y); y1 = Math.Max(y1, y);
             z0 = Math.Min(z0, z); z1 = Math.Max(z1, z);
         }
+        if (x1 < 0)
+            throw new InputFormatException("the mask has no voxel inside the ROI (all zero)", "mask",
+                "supply a mask with at least one non-zero voxel on the image grid");
         // Margin so that the local-intensity sphere around any ROI voxel stays inside the crop.
         var sp = g.SpacingMm;
         int mx = (int)Math.Ceiling(PeakRadiusMm / sp.X), my = (int)Math.Ceiling(PeakRadiusMm / sp.Y), mz = (int)Math.Ceiling(PeakRadiusMm / sp.Z);
@@ -75,8 +82,8 @@ internal static class RoiPreparer
         for (int x = 0; x < nx; x++, n++)
         {
             int src = (x + x0) + sx * ((y + y0) + sy * (z + z0));
-            v[n] = values[src];
-            morph[n] = roi[src];
+            v[n] = valueAt(src);
+            morph[n] = inRoiAt(src) ? (byte)1 : (byte)0;
         }
         var inRoi = (byte[])morph.Clone();
         ApplyNonFinitePolicy(v, inRoi, settings.NonFiniteIntensities);
