@@ -29,6 +29,19 @@ internal static class IntensityVolumeHistogram
         Add("Intensity at volume fraction (I90)", "GBPN", i90);
         Add("Volume fraction difference between intensity fractions", "DDTU", v10 - v90);
         Add("Intensity fraction difference between volume fractions", "CNV2", i10 - i90);
+        // IBSI publishes no reference value for the area under the IVH curve (not standardised).
+        Add("Area under the IVH curve", "9CMM", AreaUnderCurve(atLeast, ivh));
+    }
+
+    // Trapezoidal area under ν(γ) over the intensity fractions of levels 1..N_g.
+    private static double AreaUnderCurve(double[] atLeast, DiscreteLevels ivh)
+    {
+        int ng = ivh.BinCount;
+        if (ng == 1) return double.NaN;
+        double lo = ivh.ValueOf(1), hi = ivh.ValueOf(ng), area = 0;
+        for (int i = 1; i < ng; i++)
+            area += 0.5 * (atLeast[i] + atLeast[i + 1]) * (ivh.ValueOf(i + 1) - ivh.ValueOf(i)) / (hi - lo);
+        return area;
     }
 
     // V_x: volume fraction at the first level whose intensity fraction is at least x.

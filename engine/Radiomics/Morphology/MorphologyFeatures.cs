@@ -29,7 +29,8 @@ internal static class MorphologyFeatures
         var pts = ToMm(mesh.DoubledVertices, sp);
         var hull = ConvexHull.Measure(mesh.DoubledVertices, sp);
         // The farthest pair of mesh vertices are both convex-hull vertices (IBSI 3.1.11).
-        Add("Maximum 3D diameter", "L0JK", MaxDiameter(ToMm([.. hull.Vertices], sp)));
+        var hullMm = ToMm([.. hull.Vertices], sp);
+        Add("Maximum 3D diameter", "L0JK", MaxDiameter(hullMm));
         var lambda = PrincipalVariances(roi);
         Add("Major axis length", "TDIC", 4 * Math.Sqrt(lambda[0]));
         Add("Minor axis length", "P9VJ", 4 * Math.Sqrt(lambda[1]));
@@ -42,6 +43,10 @@ internal static class MorphologyFeatures
         double ea = 2 * Math.Sqrt(lambda[0]), eb = 2 * Math.Sqrt(lambda[1]), ec = 2 * Math.Sqrt(lambda[2]);
         Add("Volume density (approximate enclosing ellipsoid)", "6BDE", v / (4 * Math.PI * ea * eb * ec / 3));
         Add("Area density (approximate enclosing ellipsoid)", "RDD2", a / EllipsoidArea(ea, eb, ec));
+        var mvee = EnclosingEllipsoid.SemiAxes(hullMm);
+        // IBSI publishes no reference value for the MVEE densities (not standardised); computed for completeness.
+        Add("Volume density (minimum volume enclosing ellipsoid)", "SWZ1", v / (4 * Math.PI * mvee[0] * mvee[1] * mvee[2] / 3));
+        Add("Area density (minimum volume enclosing ellipsoid)", "BRI8", a / EllipsoidArea(mvee[0], mvee[1], mvee[2]));
         Add("Volume density (convex hull)", "R3ER", v / hull.VolumeMm3);
         Add("Area density (convex hull)", "7T7F", a / hull.AreaMm2);
         Add("Integrated intensity", "99N0", MeanIntensity(roi) * v);
