@@ -7,7 +7,7 @@ internal static class Discretiser
 {
     /// <summary>Discretises the intensity-mask voxels; voxels outside get level 0.</summary>
     public static DiscreteLevels Discretise(double[] intensity, byte[] inRoi, DiscretisationSettings s,
-        double? resegMin, string where)
+        double? resegMin, string where, int maxBins = 65536)
     {
         double min = double.PositiveInfinity, max = double.NegativeInfinity;
         for (int n = 0; n < intensity.Length; n++)
@@ -18,12 +18,16 @@ internal static class Discretiser
             if (v > max) max = v;
         }
         var levels = new int[intensity.Length];
-        return s.Method switch
+        var result = s.Method switch
         {
             DiscretisationMethod.FixedBinNumber => FixedBinNumber(intensity, inRoi, levels, s, min, max, where),
             DiscretisationMethod.FixedBinSize => FixedBinSize(intensity, inRoi, levels, s, s.LowerBound ?? resegMin ?? min, max, where),
             _ => Direct(intensity, inRoi, levels, min, max),
         };
+        if (result.BinCount > maxBins)
+            throw new InvalidParameterException($"discretisation gives {result.BinCount} grey levels; at most {maxBins} are allowed here",
+                where, "use fewer bins (binCount) or a larger bin width (binWidth)");
+        return result;
     }
 
     private static DiscreteLevels FixedBinNumber(double[] x, byte[] inRoi, int[] levels, DiscretisationSettings s,

@@ -10,6 +10,9 @@ namespace Serimetry.Engine.Radiomics.Preparation;
 internal static class RoiPreparer
 {
     /// <summary>Radius of the 1 cm³ sphere used by the local-intensity features (IBSI 3.2): (3/(4π))^(1/3) cm.</summary>
+    /// <summary>Most grey levels for the texture discretisation: a GLCM holds N_g² counts per matrix.</summary>
+    public const int MaxTextureBins = 1024;
+
     public static readonly double PeakRadiusMm = 10.0 * Math.Cbrt(3.0 / (4.0 * Math.PI));
 
     public static RoiData Prepare(Volume<float> image, Volume<byte> mask, RadiomicsSettings settings)
@@ -92,7 +95,7 @@ internal static class RoiPreparer
         if (roiCount == 0)
             throw new InvalidParameterException("no ROI voxel is left after re-segmentation", "resegmentation",
                 "widen the re-segmentation range or turn off outlier filtering");
-        var levels = Discretiser.Discretise(v, inRoi, settings.Discretisation, settings.Resegmentation?.RangeMin, "discretisation");
+        var levels = Discretiser.Discretise(v, inRoi, settings.Discretisation, settings.Resegmentation?.RangeMin, "discretisation", MaxTextureBins);
         var ivh = Discretiser.Discretise(v, inRoi, settings.IvhDiscretisation, settings.Resegmentation?.RangeMin, "ivhDiscretisation");
         return new RoiData
         {

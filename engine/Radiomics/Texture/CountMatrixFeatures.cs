@@ -11,9 +11,13 @@ internal static class CountMatrixFeatures
 {
     public const int Count = 17;
 
-    /// <summary>Computes the 17 values of a flat row-major matrix; all NaN when the matrix is empty.</summary>
-    public static void Compute(ReadOnlySpan<double> m, int ng, int nj, double nv, Span<double> result)
+    /// <summary>
+    /// Computes the 17 values of a flat row-major matrix; all NaN when the matrix is empty. Column j stands for
+    /// the value <paramref name="jValues"/>[j] when given (a compressed axis holding only occurring zone sizes), else j + 1.
+    /// </summary>
+    public static void Compute(ReadOnlySpan<double> m, int ng, int nj, double nv, Span<double> result, ReadOnlySpan<double> jValues = default)
     {
+        bool mapped = !jValues.IsEmpty;
         double ns = 0;
         foreach (var c in m) ns += c;
         if (ns <= 0) { result[..Count].Fill(double.NaN); return; }
@@ -28,7 +32,7 @@ internal static class CountMatrixFeatures
             {
                 double c = r[j];
                 if (c == 0) continue;
-                double gj = j + 1, gj2 = gj * gj, p = c / ns;
+                double gj = mapped ? jValues[j] : j + 1, gj2 = gj * gj, p = c / ns;
                 row += c;
                 colSum[j] += c;
                 sj += c / gj2; lj += c * gj2; lg += c / gi2; hg += c * gi2;
@@ -40,7 +44,7 @@ internal static class CountMatrixFeatures
             mu += gi * row / ns;
         }
         double jnu = 0, muJ = 0;
-        for (int j = 0; j < nj; j++) { jnu += colSum[j] * colSum[j]; muJ += (j + 1) * colSum[j] / ns; }
+        for (int j = 0; j < nj; j++) { jnu += colSum[j] * colSum[j]; muJ += (mapped ? jValues[j] : j + 1) * colSum[j] / ns; }
         double varG = 0, varJ = 0;
         for (int i = 0; i < ng; i++)
         {
@@ -51,7 +55,8 @@ internal static class CountMatrixFeatures
                 if (c == 0) continue;
                 double p = c / ns;
                 varG += (i + 1 - mu) * (i + 1 - mu) * p;
-                varJ += (j + 1 - muJ) * (j + 1 - muJ) * p;
+                double gj = mapped ? jValues[j] : j + 1;
+                varJ += (gj - muJ) * (gj - muJ) * p;
             }
         }
         result[0] = sj / ns; result[1] = lj / ns; result[2] = lg / ns; result[3] = hg / ns;

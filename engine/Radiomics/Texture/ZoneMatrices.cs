@@ -13,24 +13,33 @@ internal sealed class ZoneMatrix : IRegionMatrix
     private readonly bool _byDistance;
     private readonly int _nj;
     private readonly double[] _values = new double[CountMatrixFeatures.Count];
+    private readonly int[] _column;
+    private readonly double[] _jValues;
 
     public ZoneMatrix(RoiData roi, Zones zones, bool byDistance)
     {
         _roi = roi;
         _zones = zones;
         _byDistance = byDistance;
-        int max = 1;
         if (byDistance)
         {
+            int max = 1;
             for (int n = 0; n < roi.Count; n++)
                 if (roi.InRoi[n] != 0) max = Math.Max(max, Math.Max(zones.Distance2D[n], zones.Distance3D[n]));
+            _nj = max;
+            _column = [];
+            _jValues = [];
+            return;
         }
-        else
-        {
-            // 2D zones lie inside 3D zones, so the largest 3D zone bounds every size.
-            zones.ForEach(-1, (_, size, _) => max = Math.Max(max, size));
-        }
-        _nj = max;
+        // Zone sizes can reach the ROI size, so the size axis keeps only the sizes that occur (2D and 3D).
+        var sizes = new SortedSet<int>();
+        zones.ForEach(-1, (_, size, _) => sizes.Add(size));
+        foreach (int z in TextureAggregation.RoiSlices(roi)) zones.ForEach(z, (_, size, _) => sizes.Add(size));
+        _column = new int[sizes.Max + 1];
+        _jValues = new double[sizes.Count];
+        int c = 0;
+        foreach (int size in sizes) { _column[size] = c; _jValues[c] = size; c++; }
+        _nj = sizes.Count;
     }
 
     public int Length => _roi.BinCount * _nj;
@@ -41,8 +50,8 @@ internal sealed class ZoneMatrix : IRegionMatrix
         double voxels = 0;
         _zones.ForEach(slice, (level, size, distance) =>
         {
-            int j = _byDistance ? distance : size;
-            m[(level - 1) * _nj + j - 1]++;
+            int column = _byDistance ? distance - 1 : _column[size];
+            m[(level - 1) * _nj + column]++;
             voxels += size;
         });
         return voxels;
@@ -50,7 +59,7 @@ internal sealed class ZoneMatrix : IRegionMatrix
 
     public void Features(double[] m, double voxelCount, Span<double> result)
     {
-        CountMatrixFeatures.Compute(m, _roi.BinCount, _nj, voxelCount, _values);
+        CountMatrixFeatures.Compute(m, _roi.BinCount, _nj, voxelCount, _values, _jValues);
         _values.AsSpan(0, 16).CopyTo(result);
     }
 }

@@ -86,6 +86,11 @@ public sealed class RadiomicsBadInputTests
             new RadiomicsSettings { Discretisation = new DiscretisationSettings { BinCount = 0 } }));
         Assert.Throws<InvalidParameterException>(() => RadiomicsExtractor.Extract(image, mask,
             new RadiomicsSettings { Resegmentation = new ResegmentationSettings { RangeMin = 100 } }));
+        // 30,001 bins of width 1e-4 over intensities 0..3 would need a 30,001² GLCM: refused, not allocated.
+        Assert.Throws<InvalidParameterException>(() => RadiomicsExtractor.Extract(image, mask, new RadiomicsSettings
+        {
+            Discretisation = new DiscretisationSettings { Method = DiscretisationMethod.FixedBinSize, BinWidth = 1e-4 },
+        }));
         Assert.Throws<InvalidParameterException>(() => RadiomicsSettingsJson.Parse("{\"binz\": 3}", "test.json"));
         Assert.Throws<InvalidParameterException>(() => RadiomicsSettingsJson.Parse("{\"discretisation\": ", "test.json"));
     }
