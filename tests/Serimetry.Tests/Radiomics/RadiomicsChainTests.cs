@@ -41,6 +41,28 @@ public sealed class RadiomicsChainTests
     }
 
     [Fact]
+    public void Trilinear_resampling_reproduces_a_linear_ramp_inside_the_grid()
+    {
+        // Common practice: trilinear interpolation is exact for functions linear in x, y and z.
+        var g = Geometry.Axial(new Size3(6, 5, 4), new Vec3(2, 2, 3), new Vec3(0, 0, 0));
+        var source = new double[g.VoxelCount];
+        for (int k = 0, n = 0; k < 4; k++) for (int j = 0; j < 5; j++) for (int i = 0; i < 6; i++, n++)
+            source[n] = 3 * (2 * i) + 2 * (2 * j) - (3 * k);
+        var target = GridResampler.AlignedGrid(g, [1.0, 1.0, 1.5]);
+        var values = GridResampler.Resample(source, g, target, InterpolationMethod.Linear);
+        int checkedPoints = 0;
+        for (int k = 0, n = 0; k < target.Size.Z; k++) for (int j = 0; j < target.Size.Y; j++) for (int i = 0; i < target.Size.X; i++, n++)
+        {
+            var p = target.IndexToPhysical(i, j, k);
+            var c = g.PhysicalToIndex(p);
+            if (c.X < 0 || c.Y < 0 || c.Z < 0 || c.X > 5 || c.Y > 4 || c.Z > 3) continue;   // edge clamping outside
+            Assert.Equal(3 * p.X + 2 * p.Y - p.Z, values[n], 9);
+            checkedPoints++;
+        }
+        Assert.True(checkedPoints > 100);
+    }
+
+    [Fact]
     public void Resampling_to_the_same_spacing_changes_nothing()
     {
         var (image, mask) = RadiomicsTestData.Phantom();
