@@ -18,8 +18,11 @@ public sealed record RadiomicsSettings
     /// <summary>Discretisation for the intensity histogram and texture families (IBSI 2.7).</summary>
     public DiscretisationSettings Discretisation { get; init; } = new();
 
-    /// <summary>Discretisation for the intensity-volume histogram (IBSI 4.5); IBSI suggests a finer one.</summary>
-    public DiscretisationSettings IvhDiscretisation { get; init; } = new() { Method = DiscretisationMethod.None };
+    /// <summary>
+    /// Discretisation for the intensity-volume histogram (IBSI 3.5). Default: fixed bin number 1000, which IBSI
+    /// recommends for modalities with arbitrary intensity units such as MRI.
+    /// </summary>
+    public DiscretisationSettings IvhDiscretisation { get; init; } = new() { Method = DiscretisationMethod.FixedBinNumber, BinCount = 1000 };
 
     /// <summary>Texture matrix parameters (distances, NGLDM coarseness).</summary>
     public TextureSettings Texture { get; init; } = new();

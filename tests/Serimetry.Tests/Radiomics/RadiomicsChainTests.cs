@@ -77,6 +77,24 @@ public sealed class RadiomicsChainTests
     }
 
     [Fact]
+    public void Resampled_and_rebinarised_ball_keeps_its_volume()
+    {
+        // Src: analytic ball volume 4/3·πR³; the mask is interpolated linearly and re-binarised at 0.5 (IBSI 2.4).
+        var (image, mask) = RadiomicsTestData.Sphere(8, 1.0);
+        double truth = 4.0 / 3.0 * Math.PI * 512;
+        foreach (double spacing in new[] { 0.8, 1.6, 2.0 })
+        {
+            var f = RadiomicsExtractor.Extract(image, mask, new RadiomicsSettings
+            {
+                Families = [FeatureFamily.Morphology],
+                Resampling = new ResamplingSettings { SpacingMm = [spacing, spacing, spacing] },
+            });
+            double voxelVolume = f.Single(v => v.IbsiCode == "YEKZ").Value;
+            Assert.True(Math.Abs(voxelVolume / truth - 1) < 0.06, $"{spacing} mm: {voxelVolume:F0} mm³ vs {truth:F0} mm³");
+        }
+    }
+
+    [Fact]
     public void Outlier_filter_removes_values_beyond_three_standard_deviations()
     {
         var g = Geometry.Axial(new Size3(20, 1, 1), new Vec3(1, 1, 1), new Vec3(0, 0, 0));
