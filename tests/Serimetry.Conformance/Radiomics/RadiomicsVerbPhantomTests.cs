@@ -62,6 +62,18 @@ public sealed class RadiomicsVerbPhantomTests
         Assert.Contains("no voxel", stderr);
     }
 
+    [Fact]
+    public void Verb_says_how_to_proceed_with_DICOM_input()
+    {
+        var (rc, stderr) = RunCli(
+        [
+            "radiomics", "--image", SharedReference.PathOf("dicom"), "--mask", SharedReference.PathOf("dicom"),
+            "--out", Path.Combine(Path.GetTempPath(), "serimetry-never-written.csv"),
+        ]);
+        Assert.Equal(3, rc);
+        Assert.Contains("NIfTI", stderr);
+    }
+
     // Runs the built serimetry program (copied beside the tests through the project reference) as a process.
     private static (int ExitCode, string Stderr) RunCli(string[] args)
     {
