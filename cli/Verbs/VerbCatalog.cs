@@ -10,5 +10,6 @@ internal static class VerbCatalog
         new PhantomVerb(),
         new QaVerb(),
         new QaAdcVerb(),
+        new RadiomicsVerb(),
     ];
 }
