@@ -13,7 +13,7 @@ internal sealed class PhantomVerb : IVerb
     public VerbSpec Spec { get; } = new(
         "phantom",
         "Generate a digital phantom subject with known truth (motion, lesion growth, ADC)",
-        "--out DIR [--spec SPEC.json] [--seed N] [--visits K] [--growth F] [--max-rotate DEG] [--max-shift MM] [--format nifti]",
+        "--out DIR [--spec SPEC.json] [--seed N] [--visits K] [--growth F] [--max-rotate DEG] [--max-shift MM] [--deform MM] [--format nifti]",
         [
             new OptionSpec("out", "DIR", "output folder (visit-<k>/, truth.json, spec.json)", Required: true),
             new OptionSpec("spec", "SPEC.json", "phantom specification (default: built-in demo, same as phantoms/demo.json)"),
@@ -22,6 +22,7 @@ internal sealed class PhantomVerb : IVerb
             new OptionSpec("growth", "F", "lesion volume factor per visit"),
             new OptionSpec("max-rotate", "DEG", "largest rotation between baseline and a visit"),
             new OptionSpec("max-shift", "MM", "largest translation between baseline and a visit"),
+            new OptionSpec("deform", "MM", "amplitude of an optional mild divergence-free deformation of follow-ups (0-5 mm)"),
             new OptionSpec("format", "nifti", "output format (nifti; DICOM output is not available yet)"),
         ],
         Details: "Options given on the command line override the spec file. Same spec and seed give identical files.");
@@ -39,6 +40,7 @@ internal sealed class PhantomVerb : IVerb
             GrowthPerVisit = args.GetDouble("growth", spec.GrowthPerVisit, 0.01, 10),
             MaxRotateDeg = args.GetDouble("max-rotate", spec.MaxRotateDeg, 0, 45),
             MaxShiftMm = args.GetDouble("max-shift", spec.MaxShiftMm, 0, 100),
+            DeformationMm = args.GetDouble("deform", spec.DeformationMm, 0, 5),
         };
         if (spec.PsaNgPerMl.Length > 0 && spec.PsaNgPerMl.Length < spec.Visits)
             spec = spec with { PsaNgPerMl = ExtendPsa(spec.PsaNgPerMl, spec.Visits) };

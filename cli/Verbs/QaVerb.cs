@@ -12,7 +12,7 @@ internal sealed class QaVerb : IVerb
 {
     public VerbSpec Spec { get; } = new(
         "qa",
-        "Quality assurance: test-retest statistics and the site's repeatability profile",
+        "Quality assurance: test-retest statistics, repeatability profile, phantom checks",
         "test-retest --input TABLE.csv --out PROFILE.json [--scale auto|log|absolute] [--date YYYY-MM-DD]\n"
         + "       serimetry qa reproducibility --phantom SPEC.json --repeats R [--profile PROFILE.json] [--out QA.json]\n"
         + "       serimetry qa dwi-phantom (--exam DIR | --dwi B=FILE ...) [--roi MASK] [--temperature C | --reference ADC] [--tolerance PCT]",
@@ -36,7 +36,11 @@ internal sealed class QaVerb : IVerb
         ],
         MinPositionals: 1, MaxPositionals: 1,
         Details: "Sub-commands:\n  test-retest   wSD, wCV (log method), RC = 2.77·wSD, ICC(1,1) (2,1) (3,1) and average forms with 95 % CIs,\n"
-               + "                Bland-Altman bias and limits (exactly two repeats); the output loads as a repeatability profile.");
+               + "                Bland-Altman bias and limits (exactly two repeats); the output loads as a repeatability profile.\n"
+               + "  reproducibility  R re-acquisitions of one digital phantom (no true change): measured wCV/RC per measure and the\n"
+               + "                rate at which 'change exceeds noise' is flagged between them (the engine's own noise floor).\n"
+               + "  dwi-phantom   ADC per vial of a DWI phantom scan against water's diffusion coefficient (ice water: 1099 ×10^-6 mm²/s);\n"
+               + "                exit code 1 when a vial fails its tolerance; several --exam give repeatability across scans.");
 
     public int Run(ParsedArgs args, CliContext ctx)
     {

@@ -88,7 +88,8 @@ public static class PhantomGenerator
         double radius = LesionRadius(spec, k);
         var anatomy = new PhantomAnatomy(spec, radius);
         var centre = new Vec3(spec.GlandCentreMm[0], spec.GlandCentreMm[1], spec.GlandCentreMm[2]);
-        var renderer = new PhantomRenderer(spec, anatomy, toVisit.Inverse());
+        var motion = new PhantomMotion(toVisit, Deformation(spec, k), centre);
+        var renderer = new PhantomRenderer(spec, anatomy, motion);
         var t2Geometry = GridGeometry(spec.T2Grid, spec.ObliqueTiltDeg, centre);
         var t2 = renderer.RenderT2(t2Geometry, out var gland, out var zones, out var lesion, maxDegree);
         new RicianNoise(NoiseSeed(spec, k, 0)).Apply(t2.Voxels, spec.PeripheralZone.T2Signal / spec.Snr);
@@ -103,7 +104,7 @@ public static class PhantomGenerator
         }
         var adc = AdcFitter.Fit(dwi, null, ScannerAdcOptions(spec, maxDegree)).AdcUm2PerS;
         var date = VisitDate(spec, k);
-        var truth = Truth(spec, k, toVisit, anatomy, radius, gland, lesion, date);
+        var truth = Truth(spec, k, motion, toVisit, anatomy, radius, gland, lesion, date);
         var t2Acq = new AcquisitionInfo(3.0, "Serimetry digital phantom", "analytic", 4000, 100, spec.T2Grid.SpacingZMm, "T2W TSE oblique axial (phantom)", "MR");
         var dwiAcq = new AcquisitionInfo(3.0, "Serimetry digital phantom", "analytic", 4500, 70, spec.DwiGrid.SpacingZMm, "DWI (phantom)", "MR");
         return new PhantomVisit(k, date, t2, dwi, adc, gland, zones, lesion, t2Acq, dwiAcq, truth);
@@ -123,7 +124,16 @@ public static class PhantomGenerator
     internal static DateOnly VisitDate(PhantomSpec spec, int k) =>
         DateOnly.ParseExact(spec.FirstVisitDate, "yyyy-MM-dd").AddMonths(k * spec.VisitIntervalMonths);
 
-    private static PhantomVisitTruth Truth(PhantomSpec spec, int k, AffineTransform toVisit, PhantomAnatomy anatomy, double radius,
+    /// <summary>Visit k's deformation (none at baseline or when the amplitude is 0); phases from the seed.</summary>
+    private static PhantomDeformation? Deformation(PhantomSpec spec, int k)
+    {
+        if (k == 0 || spec.DeformationMm <= 0) return null;
+        var rng = new Random(unchecked(spec.Seed * 31 + k));
+        return new PhantomDeformation(spec.DeformationMm, spec.DeformationWavelengthMm,
+            new Vec3(2 * Math.PI * rng.NextDouble(), 2 * Math.PI * rng.NextDouble(), 2 * Math.PI * rng.NextDouble()));
+    }
+
+    private static PhantomVisitTruth Truth(PhantomSpec spec, int k, PhantomMotion motion, AffineTransform toVisit, PhantomAnatomy anatomy, double radius,
         Volume<byte> gland, Volume<byte> lesion, DateOnly date)
     {
         double voxelMl = gland.Geometry.VoxelVolumeMm3 / 1000;
@@ -142,9 +152,9 @@ public static class PhantomGenerator
         return new PhantomVisitTruth(toVisit,
             4.0 / 3 * Math.PI * radius * radius * radius / 1000, Count(lesion) * voxelMl,
             4.0 / 3 * Math.PI * g.X * g.Y * g.Z / 1000, Count(gland) * voxelMl,
-            radius, toVisit.TransformPoint(centre + anatomy.LesionOffset), toVisit.TransformPoint(centre),
+            radius, motion.BaselineToVisit(centre + anatomy.LesionOffset), motion.BaselineToVisit(centre),
             spec.Lesion.AdcUm2PerS, tissues, spec.Snr, spec.DwiSnr,
-            spec.PsaNgPerMl.Length > k ? spec.PsaNgPerMl[k] : null, date);
+            spec.PsaNgPerMl.Length > k ? spec.PsaNgPerMl[k] : null, date, motion.Deformation);
     }
 
     private static long Count(Volume<byte> mask)

@@ -8,7 +8,7 @@ namespace Serimetry.Engine.Phantoms;
 /// 3 through-plane sub-samples (the slice profile of a thick slice), so edges carry partial volume like acquired
 /// images; interior voxels use their centre (a boundary clipping only a voxel corner can be missed — documented).
 /// </summary>
-internal sealed class PhantomRenderer(PhantomSpec spec, PhantomAnatomy anatomy, AffineTransform visitToBaseline)
+internal sealed class PhantomRenderer(PhantomSpec spec, PhantomAnatomy anatomy, PhantomMotion motion)
 {
     private const int TissueCount = 9;
     private static readonly double[] ThroughPlane = [-1.0 / 3, 0, 1.0 / 3];
@@ -31,7 +31,7 @@ internal sealed class PhantomRenderer(PhantomSpec spec, PhantomAnatomy anatomy, 
         ParallelRange.For(labels.Length, 8192, (_, start, end) =>
         {
             for (int v = start; v < end; v++)
-                labels[v] = (byte)anatomy.Classify(visitToBaseline.TransformPoint(geometry.IndexToPhysical(v % nx, v / nx % ny, v / nxy)));
+                labels[v] = (byte)anatomy.Classify(motion.VisitToBaseline(geometry.IndexToPhysical(v % nx, v / nx % ny, v / nxy)));
         }, maxDegree);
         return labels;
     }
@@ -64,7 +64,7 @@ internal sealed class PhantomRenderer(PhantomSpec spec, PhantomAnatomy anatomy, 
                 double signal;
                 if (IsGland(tc) || !IsInterior(labels, v, size))
                 {
-                    var pc = visitToBaseline.TransformPoint(geometry.IndexToPhysical(index));
+                    var pc = motion.VisitToBaseline(geometry.IndexToPhysical(index));
                     if (IsGland(tc))
                     {
                         g.Voxels[v] = 1;
@@ -88,7 +88,7 @@ internal sealed class PhantomRenderer(PhantomSpec spec, PhantomAnatomy anatomy, 
             foreach (double dy in InPlane)
                 foreach (double dx in InPlane)
                 {
-                    var p = visitToBaseline.TransformPoint(geometry.IndexToPhysical(index + new Vec3(dx, dy, dz)));
+                    var p = motion.VisitToBaseline(geometry.IndexToPhysical(index + new Vec3(dx, dy, dz)));
                     var tissue = anatomy.Classify(p);
                     double s = _props[(int)tissue].T2Signal;
                     signal += IsGland(tissue) ? s * anatomy.Texture(p) : s;
@@ -118,7 +118,7 @@ internal sealed class PhantomRenderer(PhantomSpec spec, PhantomAnatomy anatomy, 
                     foreach (double dz in ThroughPlane)
                         foreach (double dy in InPlane)
                             foreach (double dx in InPlane)
-                                counts[(int)anatomy.Classify(visitToBaseline.TransformPoint(geometry.IndexToPhysical(index + new Vec3(dx, dy, dz))))]++;
+                                counts[(int)anatomy.Classify(motion.VisitToBaseline(geometry.IndexToPhysical(index + new Vec3(dx, dy, dz))))]++;
                 double bias = Bias(geometry.IndexToPhysical(index) - centre);
                 for (int b = 0; b < images.Length; b++)
                 {

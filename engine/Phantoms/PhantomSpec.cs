@@ -40,6 +40,12 @@ public sealed record PhantomSpec
     public double MaxRotateDeg { get; init; } = 4;
     public double MaxShiftMm { get; init; } = 6;
 
+    /// <summary>Amplitude of the optional mild deformation of follow-up visits (mm; 0 = rigid motion only).</summary>
+    public double DeformationMm { get; init; }
+
+    /// <summary>Wavelength of the deformation (mm).</summary>
+    public double DeformationWavelengthMm { get; init; } = 80;
+
     /// <summary>T2w SNR: PZ signal / Gaussian σ of the Rician noise.</summary>
     public double Snr { get; init; } = 40;
 
@@ -113,6 +119,8 @@ public sealed record PhantomSpec
         Check(MaxRotateDeg is >= 0 and <= 45, $"max rotation must be 0-45 degrees, got {MaxRotateDeg}");
         Check(MaxShiftMm is >= 0 and <= 100, $"max shift must be 0-100 mm, got {MaxShiftMm}");
         Check(Snr > 0 && DwiSnr > 0, "SNR values must be positive");
+        Check(DeformationMm is >= 0 and <= 5 && DeformationWavelengthMm >= 20 && 2 * Math.PI * DeformationMm / DeformationWavelengthMm < 0.5,
+            "deformation amplitude must be 0-5 mm with wavelength ≥ 20 mm and 2π·A/λ < 0.5 (mild, invertible)");
         Check(Math.Abs(ObliqueTiltDeg) <= 45, "oblique tilt must be within ±45 degrees");
         Check(BValues.Length >= 2 && BValues.All(b => b >= 0 && double.IsFinite(b)), "at least two non-negative b-values are needed");
         Check(GlandCentreMm.Length == 3 && GlandSemiAxesMm.Length == 3 && LesionOffsetMm.Length == 3, "centre, semi-axes and offset need 3 numbers");

@@ -19,6 +19,7 @@ namespace Serimetry.Engine.Phantoms;
 /// <param name="DwiSnr">DWI SNR at b = 0 (PZ S0 / σ).</param>
 /// <param name="PsaNgPerMl">PSA of the invented subject at this visit (ng/mL), or null.</param>
 /// <param name="Date">Exam date.</param>
+/// <param name="Deformation">Mild deformation on top of <paramref name="BaselineToVisit"/>, or null (rigid only).</param>
 public sealed record PhantomVisitTruth(
     AffineTransform BaselineToVisit,
     double LesionVolumeMl,
@@ -33,7 +34,8 @@ public sealed record PhantomVisitTruth(
     double Snr,
     double DwiSnr,
     double? PsaNgPerMl,
-    DateOnly Date);
+    DateOnly Date,
+    PhantomDeformation? Deformation = null);
 
 /// <summary>One generated exam.</summary>
 /// <param name="Index">Visit index (0 = baseline).</param>

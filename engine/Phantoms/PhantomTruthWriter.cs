@@ -62,6 +62,16 @@ public static class PhantomTruthWriter
         w.WriteNumber("snr", t.Snr);
         w.WriteNumber("dwiSnr", t.DwiSnr);
         if (t.PsaNgPerMl is double psa) w.WriteNumber("psa", psa); else w.WriteNull("psa");
+        if (t.Deformation is { } d)
+        {
+            w.WriteStartObject("deformation");
+            w.WriteString("convention", "visit point q shows baseline point x + u(x), x = inverse(transform)(q); u(x) = A*(sin(2*pi*(y-cy)/L + px), sin(2*pi*(z-cz)/L + py), sin(2*pi*(x-cx)/L + pz)), c = spec glandCentreMm");
+            w.WriteNumber("amplitudeMm", d.AmplitudeMm);
+            w.WriteNumber("wavelengthMm", d.WavelengthMm);
+            WriteArray(w, "phaseRad", d.PhaseRad.ToArray());
+            w.WriteEndObject();
+        }
+        else w.WriteNull("deformation");
         w.WriteEndObject();
     }
 

@@ -162,3 +162,50 @@ public sealed class PhantomGeneratorTests
         return s / n;
     }
 }
+
+public sealed class PhantomDeformationTests
+{
+    [Fact]
+    public void MildDeformationMovesAnatomyButPreservesVolume()
+    {
+        var rigid = PhantomGeneratorTests.Small(visits: 2);
+        var deformed = PhantomGenerator.Generate(rigid with { DeformationMm = 2.5, DeformationWavelengthMm = 60 });
+        var plain = PhantomGenerator.Generate(rigid);
+        var t = deformed.Visits[1].Truth;
+        Assert.NotNull(t.Deformation);
+        Assert.Null(deformed.Visits[0].Truth.Deformation);
+        Assert.Equal(plain.Visits[1].Truth.BaselineToVisit, t.BaselineToVisit);
+        // The deformation changes which voxels are gland…
+        int differing = plain.Visits[1].GlandMask.Voxels.Zip(deformed.Visits[1].GlandMask.Voxels).Count(p => p.First != p.Second);
+        Assert.True(differing > 100, $"{differing} voxels differ");
+        // …but is divergence-free, so volumes stay within the partial-volume tolerance of the analytic value.
+        Assert.InRange(t.GlandVolumeVoxelisedMl / t.GlandVolumeMl, 0.98, 1.02);
+        Assert.InRange(t.LesionVolumeVoxelisedMl / t.LesionVolumeMl, 0.94, 1.06);
+        // The true lesion centre (deformation inverted) lies in the deformed lesion mask.
+        var lesion = deformed.Visits[1].LesionMask;
+        var c = lesion.Geometry.PhysicalToIndex(t.LesionCentreMm);
+        Assert.Equal(1, lesion[(int)Math.Round(c.X), (int)Math.Round(c.Y), (int)Math.Round(c.Z)]);
+    }
+
+    [Fact]
+    public void DeformedMotionInvertsExactly()
+    {
+        var d = new PhantomDeformation(2.5, 60, new Serimetry.Engine.Core.Vec3(0.3, 1.1, 2.0));
+        var rigid = new Serimetry.Engine.Core.AffineTransform(PhantomGenerator.Rotation(new Serimetry.Engine.Core.Vec3(0, 0, 1), 0.05),
+            new Serimetry.Engine.Core.Vec3(1, -2, 3));
+        var motion = new PhantomMotion(rigid, d, Serimetry.Engine.Core.Vec3.Zero);
+        var rng = new Random(4);
+        for (int i = 0; i < 50; i++)
+        {
+            var p = new Serimetry.Engine.Core.Vec3(rng.NextDouble() * 60 - 30, rng.NextDouble() * 60 - 30, rng.NextDouble() * 60 - 30);
+            Assert.True((motion.VisitToBaseline(motion.BaselineToVisit(p)) - p).Norm < 1e-9);
+        }
+    }
+
+    [Fact]
+    public void StrongDeformationIsRefused()
+    {
+        Assert.Throws<Serimetry.Engine.Core.InvalidParameterException>(() =>
+            PhantomGenerator.Generate(PhantomGeneratorTests.Small() with { DeformationMm = 5, DeformationWavelengthMm = 20 }));
+    }
+}

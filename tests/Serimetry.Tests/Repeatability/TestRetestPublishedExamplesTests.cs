@@ -97,4 +97,32 @@ public sealed class TestRetestPublishedExamplesTests
         // CI half-width of a limit = t(0.975,16)·SD·√(3/17) (Bland & Altman 1986 approximation) = 34.5 l/min [derived].
         Assert.Equal(34.5, ba.LoaHigh.CiHigh!.Value - ba.LoaHigh.Value!.Value, 1);
     }
+
+    [Fact]
+    public void PerChildSdsMatchBlandAltmanMeasurementErrorTable()
+    {
+        // Bland & Altman, "Measurement error", BMJ 1996;313:744, Table 1: four PEFR readings (l/min) of 20
+        // schoolchildren with each child's mean and SD; the 16 rows retrieved here (scribd copy of the note).
+        double[][] pefr =
+        [
+            [190, 220, 200, 200], [220, 200, 240, 230], [260, 260, 240, 280], [210, 300, 280, 265],
+            [270, 265, 280, 270], [280, 280, 270, 275], [260, 280, 280, 300], [275, 275, 275, 305],
+            [280, 290, 300, 290], [320, 290, 300, 290], [300, 300, 310, 300], [270, 250, 330, 370],
+            [320, 330, 330, 330], [335, 320, 335, 375], [350, 320, 340, 365], [360, 320, 350, 345],
+        ];
+        double[] mean = [202.50, 222.50, 260.00, 263.75, 271.25, 276.25, 280.00, 282.50, 290.00, 300.00, 302.50, 305.00, 327.50, 341.25, 343.75, 343.75];
+        double[] sd = [12.58, 17.08, 16.33, 38.60, 6.29, 4.79, 16.33, 15.00, 8.16, 14.14, 5.00, 55.08, 5.00, 23.58, 18.87, 17.02];
+        var all = new List<RepeatabilityObservation>();
+        for (int c = 0; c < pefr.Length; c++)
+        {
+            var rows = pefr[c].Select((v, j) => new RepeatabilityObservation($"C{c + 1}", "pefr", $"{j + 1}", v)).ToList();
+            all.AddRange(rows);
+            var m = TestRetestAnalysis.AnalyseMeasure("pefr", rows);
+            Assert.Equal(mean[c], m.Mean, 0.005);
+            Assert.Equal(sd[c], m.WithinSubjectSd, 0.005);
+        }
+        // Pooled over the 16 children wSD = √(mean of the published variances) (equal group sizes) [derived].
+        double pooled = Math.Sqrt(sd.Average(s => s * s));
+        Assert.Equal(pooled, TestRetestAnalysis.Analyse(all).Measures[0].WithinSubjectSd, 0.01);
+    }
 }
