@@ -7,6 +7,7 @@ internal static class VerbCatalog
     [
         new InspectVerb(),
         new CompareVerb(),
+        new DemoVerb(),
         new PhantomVerb(),
         new QaVerb(),
         new QaAdcVerb(),

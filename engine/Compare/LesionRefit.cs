@@ -8,29 +8,37 @@ namespace Serimetry.Engine.Compare;
 /// </summary>
 /// <param name="SearchMarginMm">How far beyond the propagated outline the lesion may grow.</param>
 /// <param name="ShellMm">Thickness of the peri-lesional shell (inside the gland) that models background tissue.</param>
-/// <param name="MinSeparationSds">Below this class separation (in pooled SDs) the re-fit is refused and the propagated outline kept.</param>
-public sealed record LesionRefitSettings(double SearchMarginMm = 5.0, double ShellMm = 4.0, double MinSeparationSds = 1.0);
-
-/// <summary>Mean and SD of one channel in lesion and in background tissue.</summary>
-internal readonly record struct ChannelModel(double LesionMean, double BackgroundMean, double PooledSd)
-{
-    /// <summary>Linear discriminant weight and midpoint: score = w·(x − mid).</summary>
-    public double Weight => (LesionMean - BackgroundMean) / (PooledSd * PooledSd);
-
-    public double Midpoint => 0.5 * (LesionMean + BackgroundMean);
-
-    public double SeparationSds => Math.Abs(LesionMean - BackgroundMean) / PooledSd;
-}
+/// <param name="MinSeparationSds">Below this separation (in pooled SDs) between lesion and the nearest background tissue the re-fit is refused.</param>
+/// <param name="BackgroundClusters">At most this many background tissue classes are learned from the shell (e.g. peripheral and transition zone).</param>
+public sealed record LesionRefitSettings(double SearchMarginMm = 5.0, double ShellMm = 4.0, double MinSeparationSds = 1.0, int BackgroundClusters = 3);
 
 /// <summary>
-/// The lesion model learned at baseline: lesion and background means with the pooled SD, for ADC
-/// (10^-6 mm²/s) and for T2w divided by the local shell median.
+/// The lesion model learned at baseline, in two channels: ADC (10^-6 mm²/s) and T2w divided by the median of
+/// the peri-lesional shell. <see cref="Scale"/> is the pooled within-class SD of each channel; the lesion and
+/// each background tissue class are represented by their means.
 /// </summary>
-public sealed record LesionModel(double AdcLesionMean, double AdcBackgroundMean, double AdcPooledSd,
-    double T2LesionMean, double T2BackgroundMean, double T2PooledSd)
+/// <param name="Lesion">Lesion mean (ADC, T2 relative).</param>
+/// <param name="Background">Means of the background tissue classes found around the lesion.</param>
+/// <param name="Scale">Pooled within-class SD per channel (ADC, T2 relative).</param>
+public sealed record LesionModel(ChannelPair Lesion, IReadOnlyList<ChannelPair> Background, ChannelPair Scale)
 {
-    internal ChannelModel Adc => new(AdcLesionMean, AdcBackgroundMean, AdcPooledSd);
-    internal ChannelModel T2 => new(T2LesionMean, T2BackgroundMean, T2PooledSd);
+    /// <summary>Standardised distance between the lesion and the nearest background class.</summary>
+    public double SeparationSds => Background.Min(b => Lesion.DistanceTo(b, Scale));
+}
+
+/// <summary>A value in each channel: ADC and relative T2.</summary>
+public readonly record struct ChannelPair(double Adc, double T2)
+{
+    /// <summary>Euclidean distance after dividing each channel by <paramref name="scale"/>; NaN channels are left out.</summary>
+    public double DistanceTo(ChannelPair o, ChannelPair scale)
+    {
+        double s = 0;
+        if (double.IsFinite(Adc) && double.IsFinite(o.Adc)) s += Sq((Adc - o.Adc) / scale.Adc);
+        if (double.IsFinite(T2) && double.IsFinite(o.T2)) s += Sq((T2 - o.T2) / scale.T2);
+        return Math.Sqrt(s);
+    }
+
+    private static double Sq(double x) => x * x;
 }
 
 /// <summary>Outcome of one re-fit.</summary>
@@ -40,12 +48,15 @@ public sealed record LesionModel(double AdcLesionMean, double AdcBackgroundMean,
 public sealed record LesionRefitResult(Volume<byte> Mask, bool Refitted, string? Note);
 
 /// <summary>
-/// Re-fits a lesion outline on a visit's own images. A two-class linear discriminant on ADC and on T2w
-/// (normalised by the median of a peri-lesional shell inside the gland, which cancels smooth bias fields and
-/// scanner scaling) is learned once from the baseline outline; on each visit the voxels within a search margin
-/// around the propagated outline (and inside the dilated gland) that score as lesion form the new outline,
-/// keeping the connected pieces that touch the propagated outline and filling cavities. The same rule is
-/// applied at baseline, so every visit is measured by one method.
+/// Re-fits a lesion outline on a visit's own images. At baseline the lesion's mean ADC and relative T2w, and
+/// the tissue classes around it (k-means in the standardised two-channel space over a peri-lesional shell
+/// inside the gland, kept clear of the lesion edge by half the coarsest voxel so partial-volume voxels do not
+/// form a class), are learned once. On each visit a voxel within the search margin around the propagated
+/// outline (and inside the dilated gland) is lesion when it is nearer the lesion mean than every background
+/// class mean (a nearest-mean rule, i.e. every pairwise linear discriminant with shared variances agrees); the
+/// connected pieces touching the propagated outline are kept and cavities filled. T2w is divided by the local
+/// shell median on each visit, which cancels smooth bias fields and scanner scaling. The same rule is applied
+/// at baseline, so every visit is measured by one method.
 /// </summary>
 public static class LesionRefit
 {
@@ -56,12 +67,13 @@ public static class LesionRefit
         var shell = Shell(lesion, gland, settings.ShellMm);
         double t2Ref = Median(t2w, shell);
         if (!(t2Ref > 0)) throw new InputFormatException("the tissue around the baseline lesion has no positive T2w signal", "baseline lesion mask");
-        var (tl, tlv, tln) = Moments(t2w, lesion, 1 / t2Ref);
-        var (tb, tbv, tbn) = Moments(t2w, shell, 1 / t2Ref);
-        var (al, alv, aln) = Moments(adcOnT2w, lesion, 1);
-        var (ab, abv, abn) = Moments(adcOnT2w, shell, 1);
-        if (tln < 3 || tbn < 3) throw new InputFormatException("the baseline lesion or its surrounding gland tissue has fewer than 3 voxels", "baseline lesion mask");
-        return new LesionModel(al, ab, PooledSd(alv, aln, abv, abn, al, ab), tl, tb, PooledSd(tlv, tln, tbv, tbn, tl, tb));
+        var lesionSamples = Samples(t2w, adcOnT2w, lesion, t2Ref);
+        var shellSamples = Samples(t2w, adcOnT2w, shell, t2Ref);
+        if (lesionSamples.Count < 3 || shellSamples.Count < 3)
+            throw new InputFormatException("the baseline lesion or its surrounding gland tissue has fewer than 3 voxels", "baseline lesion mask");
+        var lesionMean = Mean(lesionSamples);
+        var (centres, scale) = TissueClasses.Fit(shellSamples, lesionSamples, lesionMean, settings.BackgroundClusters);
+        return new LesionModel(lesionMean, centres, scale);
     }
 
     /// <summary>Re-fits the lesion on one visit.</summary>
@@ -71,27 +83,23 @@ public static class LesionRefit
         t2w.Geometry.RequireCongruent(propagatedLesion.Geometry, "visit T2w and propagated lesion");
         if (MaskOps.Count(propagatedLesion) == 0)
             return new LesionRefitResult(propagatedLesion, false, "propagated lesion is empty (outside the follow-up field of view?)");
-        var adc = model.Adc;
-        var t2 = model.T2;
-        bool useAdc = adc.SeparationSds >= settings.MinSeparationSds;
-        bool useT2 = t2.SeparationSds >= settings.MinSeparationSds;
-        if (!useAdc && !useT2)
+        if (model.SeparationSds < settings.MinSeparationSds)
             return new LesionRefitResult(propagatedLesion, false,
-                $"lesion and surrounding tissue differ by less than {settings.MinSeparationSds} SD on both ADC and T2w; propagated outline kept");
+                $"lesion and surrounding tissue differ by less than {settings.MinSeparationSds} SD; propagated outline kept");
         double t2Ref = Median(t2w, Shell(propagatedLesion, gland, settings.ShellMm));
-        if (!(t2Ref > 0)) useT2 = false;
-        var search = MaskOps.Dilate(propagatedLesion, settings.SearchMarginMm);
-        var glandZone = MaskOps.Dilate(gland, 1.0);
+        var search = MaskOps.And(MaskOps.Dilate(propagatedLesion, settings.SearchMarginMm), MaskOps.Dilate(gland, 1.0));
         var candidate = propagatedLesion.Like<byte>();
         var tv = t2w.Voxels;
         var av = adcOnT2w.Voxels;
         for (int n = 0; n < tv.Length; n++)
         {
-            if (search.Voxels[n] == 0 || glandZone.Voxels[n] == 0) continue;
-            double score = 0;
-            if (useAdc && float.IsFinite(av[n])) score += adc.Weight * (av[n] - adc.Midpoint);
-            if (useT2 && float.IsFinite(tv[n])) score += t2.Weight * (tv[n] / t2Ref - t2.Midpoint);
-            candidate.Voxels[n] = score > 0 ? (byte)1 : (byte)0;
+            if (search.Voxels[n] == 0) continue;
+            var x = new ChannelPair(av[n], t2Ref > 0 ? tv[n] / t2Ref : double.NaN);
+            double toLesion = x.DistanceTo(model.Lesion, model.Scale);
+            bool lesionLike = true;
+            foreach (var b in model.Background)
+                if (x.DistanceTo(b, model.Scale) <= toLesion) { lesionLike = false; break; }
+            candidate.Voxels[n] = lesionLike ? (byte)1 : (byte)0;
         }
         var kept = MaskOps.FillHoles(MaskOps.ComponentsTouching(candidate, propagatedLesion));
         if (MaskOps.Count(kept) == 0)
@@ -99,32 +107,35 @@ public static class LesionRefit
         return new LesionRefitResult(kept, true, null);
     }
 
-    /// <summary>Gland voxels within <paramref name="mm"/> of the lesion, excluding the lesion.</summary>
-    internal static Volume<byte> Shell(Volume<byte> lesion, Volume<byte> gland, double mm) =>
-        MaskOps.Subtract(MaskOps.And(MaskOps.Dilate(lesion, mm), gland), lesion);
-
-    private static (double Mean, double Var, long N) Moments(Volume<float> image, Volume<byte> mask, double scale)
+    /// <summary>
+    /// Gland voxels between <c>gap</c> and <c>gap + mm</c> from the lesion, where gap is half the coarsest voxel
+    /// spacing: tissue near the lesion but clear of its partial-volume edge.
+    /// </summary>
+    internal static Volume<byte> Shell(Volume<byte> lesion, Volume<byte> gland, double mm)
     {
-        double mean = 0, m2 = 0;
-        long n = 0;
-        for (int i = 0; i < mask.Voxels.Length; i++)
-        {
-            if (mask.Voxels[i] == 0) continue;
-            double x = image.Voxels[i] * scale;
-            if (!double.IsFinite(x)) continue;
-            n++;
-            double d = x - mean;
-            mean += d / n;
-            m2 += d * (x - mean);
-        }
-        return (mean, n > 1 ? m2 / (n - 1) : 0, n);
+        var sp = lesion.Geometry.SpacingMm;
+        double gap = Math.Max(sp.X, Math.Max(sp.Y, sp.Z));
+        var inner = MaskOps.Dilate(lesion, gap);
+        return MaskOps.Subtract(MaskOps.And(MaskOps.Dilate(lesion, gap + mm), gland), inner);
     }
 
-    private static double PooledSd(double v1, long n1, double v2, long n2, double m1, double m2)
+    private static List<ChannelPair> Samples(Volume<float> t2w, Volume<float> adc, Volume<byte> mask, double t2Ref)
     {
-        double pooled = Math.Sqrt(((n1 - 1) * v1 + (n2 - 1) * v2) / Math.Max(1, n1 + n2 - 2));
-        double floor = 0.05 * Math.Abs(m1 - m2) + 1e-9;
-        return Math.Max(pooled, floor);
+        var list = new List<ChannelPair>();
+        for (int n = 0; n < mask.Voxels.Length; n++)
+        {
+            if (mask.Voxels[n] == 0) continue;
+            double a = adc.Voxels[n], t = t2w.Voxels[n] / t2Ref;
+            if (double.IsFinite(a) && double.IsFinite(t)) list.Add(new ChannelPair(a, t));
+        }
+        return list;
+    }
+
+    internal static ChannelPair Mean(IReadOnlyList<ChannelPair> x)
+    {
+        double a = 0, t = 0;
+        foreach (var p in x) { a += p.Adc; t += p.T2; }
+        return new ChannelPair(a / x.Count, t / x.Count);
     }
 
     private static double Median(Volume<float> image, Volume<byte> mask)

@@ -1,6 +1,7 @@
 using System.Globalization;
-using System.Text.Json;
 using Serimetry.Engine.Core;
+using Serimetry.Engine.Exams;
+using Serimetry.Engine.Io;
 using Serimetry.Engine.Io.Nifti;
 
 namespace Serimetry.Engine.Phantoms;
@@ -35,27 +36,19 @@ public static class PhantomWriter
             NiftiFile.Write(Path.Combine(masks, "gland.nii.gz"), v.GlandMask);
             NiftiFile.Write(Path.Combine(masks, "zones.nii.gz"), v.ZoneMask);
             NiftiFile.Write(Path.Combine(masks, "lesion.nii.gz"), v.LesionMask);
-            WriteExam(Path.Combine(dir, "exam.json"), subject.SubjectId, v.Date, dwiFiles);
+            WriteExam(Path.Combine(dir, ExamManifest.FileName), subject.SubjectId, v, dwiFiles);
             progress?.Invoke(v.Index + 1);
         }
         PhantomTruthWriter.WriteFile(Path.Combine(directory, "truth.json"), subject);
         File.WriteAllText(Path.Combine(directory, "spec.json"), subject.Spec.ToJson());
     }
 
-    private static void WriteExam(string path, string patientId, DateOnly date, IReadOnlyList<(string B, string File)> dwi)
-    {
-        using var f = File.Create(path);
-        using var w = new Utf8JsonWriter(f, new JsonWriterOptions { Indented = true });
-        w.WriteStartObject();
-        w.WriteString("patientId", patientId);
-        w.WriteString("date", date.ToString("yyyy-MM-dd", CultureInfo.InvariantCulture));
-        w.WriteStartObject("series");
-        w.WriteString("t2w", "t2w.nii.gz");
-        w.WriteString("adc", "adc.nii.gz");
-        w.WriteStartObject("dwi");
-        foreach (var (b, file) in dwi) w.WriteString(b, file);
-        w.WriteEndObject();
-        w.WriteEndObject();
-        w.WriteEndObject();
-    }
+    private static void WriteExam(string path, string patientId, PhantomVisit v, IReadOnlyList<(string B, string File)> dwi) =>
+        new ExamManifest
+        {
+            PatientId = patientId,
+            Date = v.Date.ToString("yyyy-MM-dd", CultureInfo.InvariantCulture),
+            Series = new ExamManifestSeries { T2w = "t2w.nii.gz", Adc = "adc.nii.gz", Dwi = dwi.ToDictionary(d => d.B, d => d.File) },
+            Acquisition = new Dictionary<string, AcquisitionInfo> { ["t2w"] = v.T2wAcquisition, ["adc"] = v.DwiAcquisition },
+        }.Save(path);
 }

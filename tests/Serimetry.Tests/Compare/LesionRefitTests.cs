@@ -22,7 +22,13 @@ public class LesionRefitTests
         return m;
     }
 
-    /// <summary>Known truth: T2w and ADC built from the masks with Gaussian noise and a smooth multiplicative T2 bias.</summary>
+    /// <summary>A central zone of intermediate signal that the lesion touches (like a transition zone).</summary>
+    private static readonly Volume<byte> InnerZone = Ellipsoid(new Vec3(-6, -2, 0), new Vec3(9, 8, 14));
+
+    /// <summary>
+    /// Known truth: T2w and ADC built from the masks (gland, an inner zone with T2 and ADC between gland and
+    /// lesion, lesion) with Gaussian noise and a smooth multiplicative T2 bias.
+    /// </summary>
     private static (Volume<float> T2, Volume<float> Adc) Images(Volume<byte> gland, Volume<byte> lesion, int seed, double bias)
     {
         var rng = new Random(seed);
@@ -33,9 +39,9 @@ public class LesionRefitTests
             double g1 = Gauss(rng), g2 = Gauss(rng);
             int i = n % Grid.Size.X;
             double b = 1 + bias * (i - 40) / 40.0;
-            bool l = lesion.Voxels[n] != 0, g = gland.Voxels[n] != 0;
-            t2.Voxels[n] = (float)(b * ((l ? 550 : g ? 1000 : 300) + 60 * g1));
-            adc.Voxels[n] = (float)((l ? 850 : g ? 1550 : 2200) + 120 * g2);
+            bool l = lesion.Voxels[n] != 0, g = gland.Voxels[n] != 0, z = InnerZone.Voxels[n] != 0;
+            t2.Voxels[n] = (float)(b * ((l ? 550 : z ? 720 : g ? 1000 : 300) + 60 * g1));
+            adc.Voxels[n] = (float)((l ? 850 : z ? 1250 : g ? 1550 : 2200) + 120 * g2);
         }
         return (t2, adc);
     }
