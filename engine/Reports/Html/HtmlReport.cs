@@ -38,7 +38,7 @@ public static class HtmlReport
         sb.Append("<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">");
         sb.Append("<style>").Append(Css).Append("</style></head><body>");
         sb.Append("<h1>Serial MRI change report</h1>");
-        sb.Append($"<p class=\"caution\"><strong>Caution.</strong> {E(report.Caution)}</p>");
+        sb.Append($"<p class=\"caution\">{E(report.Caution)}</p>");
         if (report.Partial)
         {
             sb.Append("<div class=\"partial\"><strong>Incomplete result.</strong> Some steps failed; the values below are partial.<ul>");

@@ -15,7 +15,7 @@ internal sealed record HistogramSeries(string Label, IReadOnlyList<double> Value
 /// </summary>
 internal static class SvgChart
 {
-    private const int W = 360, H = 220, Left = 56, Right = 12, Top = 28, Bottom = 40;
+    private const int W = 380, H = 220, Left = 56, Right = 32, Top = 28, Bottom = 40;
 
     /// <summary>A measure over time: points joined by a line, each follow-up's 95 % band as a vertical bar.</summary>
     public static string MeasureOverTime(string title, string unit, IReadOnlyList<TimePoint> points)
