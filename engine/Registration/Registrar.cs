@@ -42,6 +42,7 @@ public static class Registrar
         var transform = TransformFactory.Create(options.Transform, center, TransformInitializer.InitialTranslation(options.Initialization, f, m));
         RegistrationInputs.RequireOverlap(f, mask, m, transform.ToAffine());
         (f, mask, m) = RegistrationInputs.CropToMask(f, mask, m, transform.ToAffine());
+        var searchOrigin = transform.TransformPoint(center);
 
         double finest = Math.Min(f.Geometry.SpacingMm.X, Math.Min(f.Geometry.SpacingMm.Y, f.Geometry.SpacingMm.Z));
         var reports = new List<LevelReport>();
@@ -52,7 +53,7 @@ public static class Registrar
             var images = ResolutionLevel.Build(f, mask, m, level.ShrinkFactor, level.SmoothingSigmaMm, finest, options.MaxThreads);
             int seed = level.Seed ?? options.Seed + li;
             metric = CreateMetric(options, images, level.Samples, seed);
-            var report = RunLevel(li, level, images, metric, transform, options, deadline, progress, seed);
+            var report = RunLevel(li, level, images, metric, transform, options, deadline, progress, seed, (center, searchOrigin));
             if (report.StopReason == StopReason.MetricNotFinite)
                 warnings.Add($"level {li}: too few samples overlap the moving image; the level was skipped");
             reports.Add(report);
@@ -62,7 +63,7 @@ public static class Registrar
 
     private static LevelReport RunLevel(int li, RegistrationLevel level, ResolutionLevel images, ImageMetric metric,
         IParametricTransform transform, RegistrationOptions options, DateTime deadline,
-        IProgress<RegistrationProgress>? progress, int seed)
+        IProgress<RegistrationProgress>? progress, int seed, (Vec3 Center, Vec3 Start) search)
     {
         var clock = Stopwatch.StartNew();
         int p = transform.ParameterCount;
@@ -76,6 +77,7 @@ public static class Registrar
         {
             for (int k = 0; k < p; k++) raw[k] = q[k] / scales[k];
             transform.SetParameters(raw);
+            if (OutOfRange(transform, options, search)) return double.NaN;
             double v = metric.Evaluate(transform, gRaw);
             for (int k = 0; k < p; k++) g[k] = gRaw[k] / scales[k];
             return v;
@@ -91,6 +93,10 @@ public static class Registrar
         return new LevelReport(li, images.FixedShrink, images.MovingShrink, images.FixedSigmaMm, metric.Samples.Count, seed,
             outcome.Iterations, outcome.StopReason, startValue, outcome.Value, clock.Elapsed.TotalSeconds);
     }
+
+    /// <summary>Whether the transform moves the rotation centre beyond the search range.</summary>
+    private static bool OutOfRange(IParametricTransform t, RegistrationOptions o, (Vec3 Center, Vec3 Start) search) =>
+        o.MaxCenterDisplacementMm is { } limit && (t.TransformPoint(search.Center) - search.Start).Norm > limit;
 
     private static ImageMetric CreateMetric(RegistrationOptions o, ResolutionLevel images, int samples, int seed)
     {

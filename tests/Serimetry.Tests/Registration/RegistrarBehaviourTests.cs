@@ -143,6 +143,16 @@ public class RegistrarBehaviourTests
     }
 
     [Fact]
+    public void SearchRangeBoundsTheCentreDisplacement()
+    {
+        var (f, m, truth) = Pair.Value;
+        var r = Registrar.Register(f, m, Fast with { MaxCenterDisplacementMm = 2 });
+        var c = r.CenterOfRotationMm;
+        Assert.True((truth.TransformPoint(c) - c).Norm > 4, "the true motion must exceed the range for this check");
+        Assert.True((r.Transform.TransformPoint(c) - c).Norm <= 2 + 1e-9);
+    }
+
+    [Fact]
     public void UnknownPresetIsAParameterError() =>
         Assert.Throws<InvalidParameterException>(() => RegistrationOptions.ForPreset("elastic"));
 }
