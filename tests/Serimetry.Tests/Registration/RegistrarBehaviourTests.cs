@@ -112,6 +112,28 @@ public class RegistrarBehaviourTests
     }
 
     [Fact]
+    public void AffinePresetRecoversScalingAndReportsProgress()
+    {
+        var (f, _, _) = Pair.Value;
+        var scale = new AffineTransform(Mat3.Diagonal(new Vec3(1.05, 0.96, 1.0)), Vec3.Zero);
+        var truth = RegistrationPhantom.Rigid(2, 0, -3, new Vec3(2, 1, -1)).After(
+            new AffineTransform(scale.Linear, RegistrationPhantom.GlandCenter - scale.Linear * RegistrationPhantom.GlandCenter));
+        var m = RegistrationPhantom.Render(Grid, truth, PhantomContrast.T2w, 0.03, 4);
+        var reports = new List<RegistrationProgress>();
+        var r = Registrar.Register(f, m, RegistrationOptions.Affine() with { Levels = Fast.Levels }, null, new SyncProgress(reports));
+        double tre = RegistrationPhantom.GlandTre(Grid, r.Transform, truth);
+        Assert.True(tre < 0.5, $"affine TRE {tre:F3} mm");
+        Assert.Equal("affine", r.TransformType);
+        Assert.Equal(r.Levels.Sum(l => l.Iterations), reports.Count);
+        Assert.All(reports, p => Assert.True(p.Level < p.LevelCount));
+    }
+
+    private sealed class SyncProgress(List<RegistrationProgress> sink) : IProgress<RegistrationProgress>
+    {
+        public void Report(RegistrationProgress value) => sink.Add(value);
+    }
+
+    [Fact]
     public void ImplausibleMotionIsFlagged()
     {
         var (f, _, _) = Pair.Value;
