@@ -19,9 +19,11 @@ public static class Registrar
     /// <see cref="RegistrationException"/> for inputs that cannot be registered (constant image, empty mask,
     /// no overlap), <see cref="GeometryMismatchException"/> when the mask is not on the fixed grid and
     /// <see cref="InvalidParameterException"/> for bad options; everything else comes back as data.
+    /// Samples count only where the fixed mask is set and, when <paramref name="movingMask"/> is given, where
+    /// they land inside it.
     /// </summary>
     public static RegistrationResult Register(Volume<float> fixedImage, Volume<float> moving, RegistrationOptions options,
-        Volume<byte>? fixedMask = null, IProgress<RegistrationProgress>? progress = null)
+        Volume<byte>? fixedMask = null, IProgress<RegistrationProgress>? progress = null, Volume<byte>? movingMask = null)
     {
         ArgumentNullException.ThrowIfNull(fixedImage);
         ArgumentNullException.ThrowIfNull(moving);
@@ -33,6 +35,7 @@ public static class Registrar
         var f = RegistrationInputs.Sanitize(fixedImage, "fixed", warnings);
         var m = RegistrationInputs.Sanitize(moving, "moving", warnings);
         var mask = RegistrationInputs.PrepareMask(fixedMask, f.Geometry, options.MaskDilationMm);
+        var mMask = RegistrationInputs.PrepareMask(movingMask, m.Geometry, options.MaskDilationMm, "moving");
         if (options.CorrectBias)
         {
             f = BiasFieldCorrection.Correct(f, options.MaxThreads);
@@ -41,7 +44,7 @@ public static class Registrar
         var center = TransformInitializer.RotationCenter(f, mask);
         var transform = TransformFactory.Create(options.Transform, center, TransformInitializer.InitialTranslation(options.Initialization, f, m));
         RegistrationInputs.RequireOverlap(f, mask, m, transform.ToAffine());
-        (f, mask, m) = RegistrationInputs.CropToMask(f, mask, m, transform.ToAffine());
+        (f, mask, m, mMask) = RegistrationInputs.CropToMask(f, mask, m, mMask, transform.ToAffine());
         var searchOrigin = transform.TransformPoint(center);
 
         double finest = Math.Min(f.Geometry.SpacingMm.X, Math.Min(f.Geometry.SpacingMm.Y, f.Geometry.SpacingMm.Z));
@@ -50,7 +53,7 @@ public static class Registrar
         for (int li = 0; li < options.Levels.Count; li++)
         {
             var level = options.Levels[li];
-            var images = ResolutionLevel.Build(f, mask, m, level.ShrinkFactor, level.SmoothingSigmaMm, finest, options.MaxThreads);
+            var images = ResolutionLevel.Build(f, mask, m, level.ShrinkFactor, level.SmoothingSigmaMm, finest, options.MaxThreads, mMask);
             int seed = level.Seed ?? options.Seed + li;
             metric = CreateMetric(options, images, level.Samples, seed);
             var report = RunLevel(li, level, images, metric, transform, options, deadline, progress, seed, (center, searchOrigin));
@@ -102,12 +105,13 @@ public static class Registrar
     {
         var set = SampleSet.Draw(images.Fixed, images.Mask, samples, seed);
         var interp = new LinearInterpolator(images.Moving);
+        var lookup = images.MovingMask is null ? null : new MaskLookup(images.MovingMask);
         return o.Metric switch
         {
             MetricKind.MattesMutualInformation => new MattesMutualInformationMetric(set, interp, o.MaxThreads, o.HistogramBins,
-                Range(set.FixedValues), Range(images.Moving.Voxels)),
-            MetricKind.Correlation => new CorrelationMetric(set, interp, o.MaxThreads),
-            MetricKind.MeanSquares => new MeanSquaresMetric(set, interp, o.MaxThreads),
+                Range(set.FixedValues), Range(images.Moving.Voxels)) { MovingMask = lookup },
+            MetricKind.Correlation => new CorrelationMetric(set, interp, o.MaxThreads) { MovingMask = lookup },
+            MetricKind.MeanSquares => new MeanSquaresMetric(set, interp, o.MaxThreads) { MovingMask = lookup },
             _ => throw new ArgumentOutOfRangeException(nameof(o)),
         };
     }

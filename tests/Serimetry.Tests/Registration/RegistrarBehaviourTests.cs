@@ -52,6 +52,22 @@ public class RegistrarBehaviourTests
     }
 
     [Fact]
+    public void MovingMaskRestrictsTheSamplesAndStillAligns()
+    {
+        var (f, m, truth) = Pair.Value;
+        // The follow-up gland mask: the baseline gland carried by the true motion.
+        var movingGland = new Volume<byte>(Grid);
+        var inverse = truth.Inverse();
+        for (int k = 0; k < Grid.Size.Z; k++)
+            for (int j = 0; j < Grid.Size.Y; j++)
+                for (int i = 0; i < Grid.Size.X; i++)
+                    if (RegistrationPhantom.InGland(inverse.TransformPoint(Grid.IndexToPhysical(i, j, k)))) movingGland[i, j, k] = 1;
+        var r = Registrar.Register(f, m, Fast, RegistrationPhantom.GlandMask(Grid), null, movingGland);
+        Assert.True(RegistrationPhantom.GlandTre(Grid, r.Transform, truth) < 0.5);
+        Assert.Throws<RegistrationException>(() => Registrar.Register(f, m, Fast, null, null, new Volume<byte>(Grid)));
+    }
+
+    [Fact]
     public void MaskOnAnotherGridIsAnInputError()
     {
         var (f, m, _) = Pair.Value;
