@@ -36,15 +36,14 @@ public static class Registrar
         var m = RegistrationInputs.Sanitize(moving, "moving", warnings);
         var mask = RegistrationInputs.PrepareMask(fixedMask, f.Geometry, options.MaskDilationMm);
         var mMask = RegistrationInputs.PrepareMask(movingMask, m.Geometry, options.MaskDilationMm, "moving");
-        if (options.CorrectBias)
-        {
-            f = BiasFieldCorrection.Correct(f, options.MaxThreads);
-            m = BiasFieldCorrection.Correct(m, options.MaxThreads);
-        }
+        var fField = options.CorrectBias ? BiasFieldCorrection.Estimate(f) : null;
+        var mField = options.CorrectBias ? BiasFieldCorrection.Estimate(m) : null;
         var center = TransformInitializer.RotationCenter(f, mask);
         var transform = TransformFactory.Create(options.Transform, center, TransformInitializer.InitialTranslation(options.Initialization, f, m));
         RegistrationInputs.RequireOverlap(f, mask, m, transform.ToAffine());
         (f, mask, m, mMask) = RegistrationInputs.CropToMask(f, mask, m, mMask, transform.ToAffine());
+        if (fField is not null) f = BiasFieldCorrection.Apply(f, fField, options.MaxThreads);
+        if (mField is not null) m = BiasFieldCorrection.Apply(m, mField, options.MaxThreads);
         var searchOrigin = transform.TransformPoint(center);
 
         double finest = Math.Min(f.Geometry.SpacingMm.X, Math.Min(f.Geometry.SpacingMm.Y, f.Geometry.SpacingMm.Z));
