@@ -39,7 +39,7 @@ public static class Registrar
         var fField = options.CorrectBias ? BiasFieldCorrection.Estimate(f) : null;
         var mField = options.CorrectBias ? BiasFieldCorrection.Estimate(m) : null;
         var center = TransformInitializer.RotationCenter(f, mask);
-        var transform = TransformFactory.Create(options.Transform, center, TransformInitializer.InitialTranslation(options.Initialization, f, m));
+        var transform = TransformFactory.Create(options.Transform, center, TransformInitializer.Start(options.Initialization, f, m));
         RegistrationInputs.RequireOverlap(f, mask, m, transform.ToAffine());
         (f, mask, m, mMask) = RegistrationInputs.CropToMask(f, mask, m, mMask, transform.ToAffine());
         if (fField is not null) f = BiasFieldCorrection.Apply(f, fField, options.MaxThreads);

@@ -32,6 +32,9 @@ public enum InitializationKind
 
     /// <summary>Translation aligning intensity centres of mass (voxels above the image mean).</summary>
     CentersOfMass,
+
+    /// <summary>Centres of mass plus the rotation aligning the principal axes (needs the whole object in view).</summary>
+    Moments,
 }
 
 /// <summary>
