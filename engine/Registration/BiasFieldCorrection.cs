@@ -14,14 +14,22 @@ internal static class BiasFieldCorrection
 {
     private const int Terms = 10;
 
-    public static Volume<float> Correct(Volume<float> image, int maxThreads = -1)
+    /// <summary>A fitted log-domain field: polynomial coefficients in (p − centre) / scale, constant term zero.</summary>
+    internal sealed record Field(double[] Coefficients, Vec3 CenterMm, double ScaleMm);
+
+    /// <summary>Estimates the field and divides it out.</summary>
+    public static Volume<float> Correct(Volume<float> image, int maxThreads = -1) =>
+        Estimate(image) is { } field ? Apply(image, field, maxThreads) : image;
+
+    /// <summary>Fits the field on the whole image (null when no fit is possible).</summary>
+    public static Field? Estimate(Volume<float> image)
     {
         var g = image.Geometry;
         var v = image.Voxels;
         double mean = 0;
         foreach (var x in v) mean += x;
         mean /= v.Length;
-        if (!(mean > 0)) return image;
+        if (!(mean > 0)) return null;
         var center = g.CenterMm;
         double scale = 0.5 * Math.Max(1, (new Vec3(g.Size.X, g.Size.Y, g.Size.Z).Scale(g.SpacingMm)).Norm);
         var ata = new double[Terms * Terms];
@@ -43,8 +51,20 @@ internal static class BiasFieldCorrection
                     }
                 }
         for (int a = 0; a < Terms; a++) ata[a * Terms + a] += 1e-6;
-        if (!Solve(ata, atb)) return image;
+        if (!Solve(ata, atb)) return null;
         atb[0] = 0; // keep the overall level: divide by the field's variation only
+        return new Field(atb, center, scale);
+    }
+
+    /// <summary>
+    /// Divides <paramref name="image"/> by the field; the field lives in physical space, so it can be fitted
+    /// on a whole image and applied to a crop of it.
+    /// </summary>
+    public static Volume<float> Apply(Volume<float> image, Field field, int maxThreads = -1)
+    {
+        var g = image.Geometry;
+        var v = image.Voxels;
+        var (atb, center, scale) = (field.Coefficients, field.CenterMm, field.ScaleMm);
         var result = new float[v.Length];
         var rowStep = g.IndexToPhysicalMatrix.Column(0) / scale;
         ParallelRange.For(g.Size.Z * g.Size.Y, 64, (_, start, end) =>

@@ -19,9 +19,11 @@ public static class Registrar
     /// <see cref="RegistrationException"/> for inputs that cannot be registered (constant image, empty mask,
     /// no overlap), <see cref="GeometryMismatchException"/> when the mask is not on the fixed grid and
     /// <see cref="InvalidParameterException"/> for bad options; everything else comes back as data.
+    /// Samples count only where the fixed mask is set and, when <paramref name="movingMask"/> is given, where
+    /// they land inside it.
     /// </summary>
     public static RegistrationResult Register(Volume<float> fixedImage, Volume<float> moving, RegistrationOptions options,
-        Volume<byte>? fixedMask = null, IProgress<RegistrationProgress>? progress = null)
+        Volume<byte>? fixedMask = null, IProgress<RegistrationProgress>? progress = null, Volume<byte>? movingMask = null)
     {
         ArgumentNullException.ThrowIfNull(fixedImage);
         ArgumentNullException.ThrowIfNull(moving);
@@ -33,15 +35,16 @@ public static class Registrar
         var f = RegistrationInputs.Sanitize(fixedImage, "fixed", warnings);
         var m = RegistrationInputs.Sanitize(moving, "moving", warnings);
         var mask = RegistrationInputs.PrepareMask(fixedMask, f.Geometry, options.MaskDilationMm);
-        if (options.CorrectBias)
-        {
-            f = BiasFieldCorrection.Correct(f, options.MaxThreads);
-            m = BiasFieldCorrection.Correct(m, options.MaxThreads);
-        }
+        var mMask = RegistrationInputs.PrepareMask(movingMask, m.Geometry, options.MaskDilationMm, "moving");
+        var fField = options.CorrectBias ? BiasFieldCorrection.Estimate(f) : null;
+        var mField = options.CorrectBias ? BiasFieldCorrection.Estimate(m) : null;
         var center = TransformInitializer.RotationCenter(f, mask);
-        var transform = TransformFactory.Create(options.Transform, center, TransformInitializer.InitialTranslation(options.Initialization, f, m));
+        var transform = TransformFactory.Create(options.Transform, center, TransformInitializer.Start(options.Initialization, f, m));
         RegistrationInputs.RequireOverlap(f, mask, m, transform.ToAffine());
-        (f, mask, m) = RegistrationInputs.CropToMask(f, mask, m, transform.ToAffine());
+        (f, mask, m, mMask) = RegistrationInputs.CropToMask(f, mask, m, mMask, transform.ToAffine());
+        if (fField is not null) f = BiasFieldCorrection.Apply(f, fField, options.MaxThreads);
+        if (mField is not null) m = BiasFieldCorrection.Apply(m, mField, options.MaxThreads);
+        var searchOrigin = transform.TransformPoint(center);
 
         double finest = Math.Min(f.Geometry.SpacingMm.X, Math.Min(f.Geometry.SpacingMm.Y, f.Geometry.SpacingMm.Z));
         var reports = new List<LevelReport>();
@@ -49,10 +52,10 @@ public static class Registrar
         for (int li = 0; li < options.Levels.Count; li++)
         {
             var level = options.Levels[li];
-            var images = ResolutionLevel.Build(f, mask, m, level.ShrinkFactor, level.SmoothingSigmaMm, finest, options.MaxThreads);
+            var images = ResolutionLevel.Build(f, mask, m, level.ShrinkFactor, level.SmoothingSigmaMm, finest, options.MaxThreads, mMask);
             int seed = level.Seed ?? options.Seed + li;
             metric = CreateMetric(options, images, level.Samples, seed);
-            var report = RunLevel(li, level, images, metric, transform, options, deadline, progress, seed);
+            var report = RunLevel(li, level, images, metric, transform, options, deadline, progress, seed, (center, searchOrigin));
             if (report.StopReason == StopReason.MetricNotFinite)
                 warnings.Add($"level {li}: too few samples overlap the moving image; the level was skipped");
             reports.Add(report);
@@ -62,7 +65,7 @@ public static class Registrar
 
     private static LevelReport RunLevel(int li, RegistrationLevel level, ResolutionLevel images, ImageMetric metric,
         IParametricTransform transform, RegistrationOptions options, DateTime deadline,
-        IProgress<RegistrationProgress>? progress, int seed)
+        IProgress<RegistrationProgress>? progress, int seed, (Vec3 Center, Vec3 Start) search)
     {
         var clock = Stopwatch.StartNew();
         int p = transform.ParameterCount;
@@ -76,6 +79,7 @@ public static class Registrar
         {
             for (int k = 0; k < p; k++) raw[k] = q[k] / scales[k];
             transform.SetParameters(raw);
+            if (OutOfRange(transform, options, search)) return double.NaN;
             double v = metric.Evaluate(transform, gRaw);
             for (int k = 0; k < p; k++) g[k] = gRaw[k] / scales[k];
             return v;
@@ -92,16 +96,21 @@ public static class Registrar
             outcome.Iterations, outcome.StopReason, startValue, outcome.Value, clock.Elapsed.TotalSeconds);
     }
 
+    /// <summary>Whether the transform moves the rotation centre beyond the search range.</summary>
+    private static bool OutOfRange(IParametricTransform t, RegistrationOptions o, (Vec3 Center, Vec3 Start) search) =>
+        o.MaxCenterDisplacementMm is { } limit && (t.TransformPoint(search.Center) - search.Start).Norm > limit;
+
     private static ImageMetric CreateMetric(RegistrationOptions o, ResolutionLevel images, int samples, int seed)
     {
         var set = SampleSet.Draw(images.Fixed, images.Mask, samples, seed);
         var interp = new LinearInterpolator(images.Moving);
+        var lookup = images.MovingMask is null ? null : new MaskLookup(images.MovingMask);
         return o.Metric switch
         {
             MetricKind.MattesMutualInformation => new MattesMutualInformationMetric(set, interp, o.MaxThreads, o.HistogramBins,
-                Range(set.FixedValues), Range(images.Moving.Voxels)),
-            MetricKind.Correlation => new CorrelationMetric(set, interp, o.MaxThreads),
-            MetricKind.MeanSquares => new MeanSquaresMetric(set, interp, o.MaxThreads),
+                Range(set.FixedValues), Range(images.Moving.Voxels)) { MovingMask = lookup },
+            MetricKind.Correlation => new CorrelationMetric(set, interp, o.MaxThreads) { MovingMask = lookup },
+            MetricKind.MeanSquares => new MeanSquaresMetric(set, interp, o.MaxThreads) { MovingMask = lookup },
             _ => throw new ArgumentOutOfRangeException(nameof(o)),
         };
     }

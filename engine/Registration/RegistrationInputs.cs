@@ -35,15 +35,15 @@ internal static class RegistrationInputs
         return new Volume<float>(image.Geometry, copy);
     }
 
-    /// <summary>Checks the mask lies on the fixed grid and is not empty; dilates it when asked.</summary>
-    public static Volume<byte>? PrepareMask(Volume<byte>? mask, Geometry fixedGeometry, double dilationMm)
+    /// <summary>Checks the mask lies on its image's grid and is not empty; dilates it when asked.</summary>
+    public static Volume<byte>? PrepareMask(Volume<byte>? mask, Geometry imageGeometry, double dilationMm, string which = "fixed")
     {
         if (mask is null) return null;
-        fixedGeometry.RequireCongruent(mask.Geometry, "the fixed image and the fixed mask");
+        imageGeometry.RequireCongruent(mask.Geometry, $"the {which} image and the {which} mask");
         long count = 0;
         foreach (var b in mask.Voxels) if (b != 0) count++;
         if (count == 0)
-            throw new RegistrationException("the fixed mask is empty (no non-zero voxel)",
+            throw new RegistrationException($"the {which} mask is empty (no non-zero voxel)",
                 "supply a mask that outlines the region to align (e.g. the gland), or register without a mask");
         return dilationMm > 0 ? MaskOperations.DilateBox(mask, dilationMm) : mask;
     }
@@ -84,10 +84,10 @@ internal static class RegistrationInputs
     /// so the pyramid is built on a fraction of a large field of view. Results equal those on the full
     /// images except where the motion exceeds that margin.
     /// </summary>
-    public static (Volume<float> Fixed, Volume<byte>? Mask, Volume<float> Moving) CropToMask(
-        Volume<float> fixedImage, Volume<byte>? mask, Volume<float> moving, AffineTransform start)
+    public static (Volume<float> Fixed, Volume<byte>? Mask, Volume<float> Moving, Volume<byte>? MovingMask) CropToMask(
+        Volume<float> fixedImage, Volume<byte>? mask, Volume<float> moving, Volume<byte>? movingMask, AffineTransform start)
     {
-        if (mask is null || MaskOperations.BoundingBox(mask, FixedCropMarginMm) is not { } box) return (fixedImage, mask, moving);
+        if (mask is null || MaskOperations.BoundingBox(mask, FixedCropMarginMm) is not { } box) return (fixedImage, mask, moving, movingMask);
         var f = MaskOperations.Crop(fixedImage, box.Lo, box.Hi);
         var k = MaskOperations.Crop(mask, box.Lo, box.Hi);
         var fg = fixedImage.Geometry;
@@ -105,6 +105,6 @@ internal static class RegistrationInputs
         int Hi(double v, double spacing) => (int)Math.Ceiling(v + MovingCropMarginMm / spacing);
         var lo = new VoxelIndex(Math.Clamp(Lo(lx, sp.X), 0, mg.Size.X - 1), Math.Clamp(Lo(ly, sp.Y), 0, mg.Size.Y - 1), Math.Clamp(Lo(lz, sp.Z), 0, mg.Size.Z - 1));
         var hi = new VoxelIndex(Math.Clamp(Hi(hx, sp.X), 0, mg.Size.X - 1), Math.Clamp(Hi(hy, sp.Y), 0, mg.Size.Y - 1), Math.Clamp(Hi(hz, sp.Z), 0, mg.Size.Z - 1));
-        return (f, k, MaskOperations.Crop(moving, lo, hi));
+        return (f, k, MaskOperations.Crop(moving, lo, hi), movingMask is null ? null : MaskOperations.Crop(movingMask, lo, hi));
     }
 }

@@ -32,6 +32,9 @@ public enum InitializationKind
 
     /// <summary>Translation aligning intensity centres of mass (voxels above the image mean).</summary>
     CentersOfMass,
+
+    /// <summary>Centres of mass plus the rotation aligning the principal axes (needs the whole object in view).</summary>
+    Moments,
 }
 
 /// <summary>
@@ -77,6 +80,12 @@ public sealed record RegistrationOptions
     /// <summary>Worker threads (-1: all cores). Results do not depend on it.</summary>
     public int MaxThreads { get; init; } = -1;
 
+    /// <summary>
+    /// Search range: the optimizer may not move the rotation centre further than this (mm) from where the
+    /// starting transform puts it (null: unbounded). Steps beyond it count as failed steps.
+    /// </summary>
+    public double? MaxCenterDisplacementMm { get; init; }
+
     /// <summary>Warn when the rotation exceeds this angle (degrees).</summary>
     public double WarnRotationDeg { get; init; } = 20;
 
@@ -106,7 +115,8 @@ public sealed record RegistrationOptions
 
     /// <summary>
     /// ADC/DWI → T2w of the same exam: rigid, Mattes MI (robust to EPI contrast), identity start (same
-    /// scanner frame), two levels with small steps, and tighter plausibility warnings (5°, 10 mm).
+    /// scanner frame), three levels with small steps, a 15 mm search range and tighter plausibility
+    /// warnings (5°, 10 mm).
     /// </summary>
     public static RegistrationOptions WithinExam() => new()
     {
@@ -116,6 +126,7 @@ public sealed record RegistrationOptions
         CorrectBias = true,
         WarnRotationDeg = 5,
         WarnShiftMm = 10,
+        MaxCenterDisplacementMm = 15,
     };
 
     /// <summary>The named preset; throws <see cref="InvalidParameterException"/> for an unknown name.</summary>

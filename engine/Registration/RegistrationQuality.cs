@@ -9,6 +9,7 @@ internal static class RegistrationQuality
     /// <summary>Rotation angle (degrees) of the orthonormal part of the linear map (Gram–Schmidt on its columns).</summary>
     public static double RotationDegrees(Mat3 linear)
     {
+        if (!(Math.Abs(linear.Determinant) > 1e-12)) return double.NaN;
         var c0 = linear.Column(0).Normalized();
         var c1 = linear.Column(1) - c0.Dot(linear.Column(1)) * c0;
         c1 = c1.Normalized();
@@ -22,6 +23,8 @@ internal static class RegistrationQuality
         double before, double after)
     {
         var ci = CultureInfo.InvariantCulture;
+        if (double.IsNaN(rotationDeg))
+            warnings.Add("the estimated linear map is singular: the registration failed");
         if (rotationDeg > o.WarnRotationDeg)
             warnings.Add(string.Create(ci, $"rotation {rotationDeg:F1}° exceeds {o.WarnRotationDeg:G}°: check the alignment visually"));
         if (shiftMm > o.WarnShiftMm)

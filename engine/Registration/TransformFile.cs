@@ -36,8 +36,8 @@ public static class TransformFile
                 ["metric"] = r.MetricName,
                 ["metricBefore"] = Finite(r.MetricBefore),
                 ["metricAfter"] = Finite(r.MetricAfter),
-                ["rotationDeg"] = r.RotationDeg,
-                ["shiftMm"] = r.ShiftMm,
+                ["rotationDeg"] = Finite(r.RotationDeg),
+                ["shiftMm"] = Finite(r.ShiftMm),
                 ["iterations"] = new JsonArray(r.Levels.Select(l => (JsonNode?)l.Iterations).ToArray()),
                 ["stopReasons"] = new JsonArray(r.Levels.Select(l => (JsonNode?)l.StopReason.ToString()).ToArray()),
                 ["stopReason"] = r.StopReason.ToString(),
@@ -100,7 +100,7 @@ public static class TransformFile
     private static JsonObject Parameters(RegistrationResult r)
     {
         var o = new JsonObject();
-        for (int i = 0; i < r.Parameters.Count; i++) o[r.ParameterNames[i]] = r.Parameters[i];
+        for (int i = 0; i < r.Parameters.Count; i++) o[r.ParameterNames[i]] = Finite(r.Parameters[i]);
         return o;
     }
 

@@ -12,14 +12,26 @@ internal static class TransformInitializer
     public static Vec3 RotationCenter(Volume<float> fixedImage, Volume<byte>? mask) =>
         mask is not null ? MaskOperations.Centroid(mask) : CenterOfMass(fixedImage);
 
-    /// <summary>The initial translation (moving − fixed) for the chosen initialisation.</summary>
-    public static Vec3 InitialTranslation(InitializationKind kind, Volume<float> fixedImage, Volume<float> moving) => kind switch
+    /// <summary>The starting map (fixed → moving) for the chosen initialisation.</summary>
+    public static AffineTransform Start(InitializationKind kind, Volume<float> fixedImage, Volume<float> moving)
     {
-        InitializationKind.Identity => Vec3.Zero,
-        InitializationKind.GeometryCenters => moving.Geometry.CenterMm - fixedImage.Geometry.CenterMm,
-        InitializationKind.CentersOfMass => CenterOfMass(moving) - CenterOfMass(fixedImage),
-        _ => throw new ArgumentOutOfRangeException(nameof(kind)),
-    };
+        switch (kind)
+        {
+            case InitializationKind.Identity:
+                return AffineTransform.Identity;
+            case InitializationKind.GeometryCenters:
+                return new AffineTransform(Mat3.Identity, moving.Geometry.CenterMm - fixedImage.Geometry.CenterMm);
+            case InitializationKind.CentersOfMass:
+                return new AffineTransform(Mat3.Identity, CenterOfMass(moving) - CenterOfMass(fixedImage));
+            case InitializationKind.Moments:
+                var (cf, mf) = PrincipalAxes.Compute(fixedImage);
+                var (cm, mm) = PrincipalAxes.Compute(moving);
+                var r = PrincipalAxes.AlignAxes(mf, mm);
+                return new AffineTransform(r, cm - r * cf);
+            default:
+                throw new ArgumentOutOfRangeException(nameof(kind));
+        }
+    }
 
     /// <summary>
     /// Intensity-weighted centroid of voxels brighter than the image mean (so a noisy background does not

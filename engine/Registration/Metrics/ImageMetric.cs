@@ -27,6 +27,9 @@ internal abstract class ImageMetric
 
     public SampleSet Samples { get; }
     public LinearInterpolator Moving { get; }
+
+    /// <summary>When set, samples that map outside this moving-image mask do not count.</summary>
+    public MaskLookup? MovingMask { get; init; }
     public int MaxThreads { get; }
 
     /// <summary>Samples that mapped inside the moving image at the last evaluation.</summary>
@@ -78,6 +81,11 @@ internal abstract class ImageMetric
             {
                 var x = new Vec3(s.X[i], s.Y[i], s.Z[i]);
                 var y = affine.TransformPoint(x);
+                if (MovingMask is not null && !MovingMask.Inside(y))
+                {
+                    Valid[i] = false;
+                    continue;
+                }
                 bool ok;
                 if (wantGradient)
                 {

@@ -27,7 +27,9 @@ internal static class LbfgsOptimizer
         {
             if (it >= s.MaxIterations) return new(q, value, it, StopReason.MaxIterations);
             if (s.TimeUp) return new(q, value, it, StopReason.TimeLimit);
-            if (RegularStepGradientDescent.Norm(g) < s.GradientTolerance) return new(q, value, it, StopReason.Converged);
+            double gNorm = RegularStepGradientDescent.Norm(g);
+            if (!double.IsFinite(gNorm)) return new(q, value, it, StopReason.MetricNotFinite);
+            if (gNorm < s.GradientTolerance) return new(q, value, it, StopReason.Converged);
             Direction(g, sHist, yHist, d);
             double slope = RegularStepGradientDescent.Dot(g, d);
             if (slope >= 0)

@@ -25,6 +25,7 @@ internal static class RegularStepGradientDescent
             if (it >= s.MaxIterations) return new(best, bestValue, it, StopReason.MaxIterations);
             if (s.TimeUp) return new(best, bestValue, it, StopReason.TimeLimit);
             double norm = Norm(g);
+            if (!double.IsFinite(norm)) return new(best, bestValue, it, StopReason.MetricNotFinite);
             if (norm < s.GradientTolerance) return new(best, bestValue, it, StopReason.Converged);
             if (it > 0 && Dot(g, gPrev) < 0) step *= s.Relaxation;
             if (step < s.MinStep) return new(best, bestValue, it, StopReason.StepTooSmall);

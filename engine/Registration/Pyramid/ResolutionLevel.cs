@@ -4,7 +4,7 @@ namespace Serimetry.Engine.Registration.Pyramid;
 
 /// <summary>The fixed image, mask and moving image prepared for one pyramid level.</summary>
 internal sealed record ResolutionLevel(Volume<float> Fixed, Volume<byte>? Mask, Volume<float> Moving,
-    Size3 FixedShrink, Size3 MovingShrink, Vec3 FixedSigmaMm)
+    Size3 FixedShrink, Size3 MovingShrink, Vec3 FixedSigmaMm, Volume<byte>? MovingMask = null)
 {
     /// <summary>
     /// Smooths and shrinks both images for a level whose target spacing is
@@ -12,7 +12,7 @@ internal sealed record ResolutionLevel(Volume<float> Fixed, Volume<byte>? Mask, 
     /// its own integer factor so anisotropic voxels become closer to isotropic rather than coarser still.
     /// </summary>
     public static ResolutionLevel Build(Volume<float> fixedImage, Volume<byte>? mask, Volume<float> moving,
-        double shrinkFactor, double? sigmaMm, double finestSpacingMm, int maxThreads)
+        double shrinkFactor, double? sigmaMm, double finestSpacingMm, int maxThreads, Volume<byte>? movingMask = null)
     {
         double target = shrinkFactor * finestSpacingMm;
         var fShrink = ShrinkFor(fixedImage.Geometry, target);
@@ -22,7 +22,8 @@ internal sealed record ResolutionLevel(Volume<float> Fixed, Volume<byte>? Mask, 
         var f = Downsampler.Shrink(GaussianSmoothing.Smooth(fixedImage, fSigma, maxThreads), fShrink);
         var m = Downsampler.Shrink(GaussianSmoothing.Smooth(moving, mSigma, maxThreads), mShrink);
         var k = mask is null ? null : Downsampler.ShrinkMask(mask, fShrink);
-        return new ResolutionLevel(f, k, m, new Size3(fShrink.X, fShrink.Y, fShrink.Z), new Size3(mShrink.X, mShrink.Y, mShrink.Z), fSigma);
+        var mk = movingMask is null ? null : Downsampler.ShrinkMask(movingMask, mShrink);
+        return new ResolutionLevel(f, k, m, new Size3(fShrink.X, fShrink.Y, fShrink.Z), new Size3(mShrink.X, mShrink.Y, mShrink.Z), fSigma, mk);
     }
 
     private static (int X, int Y, int Z) ShrinkFor(Geometry g, double targetMm)

@@ -6,6 +6,27 @@ namespace Serimetry.Engine.Registration.Transforms;
 /// <summary>Creates parametric transforms and their parameter scales.</summary>
 internal static class TransformFactory
 {
+    /// <summary>
+    /// A transform of <paramref name="kind"/> about <paramref name="centerMm"/> that starts as close to
+    /// <paramref name="start"/> as the family allows (a translation keeps only the centre's displacement;
+    /// a rigid transform takes the Euler angles of the linear part, which should be a rotation).
+    /// </summary>
+    public static IParametricTransform Create(TransformKind kind, Vec3 centerMm, AffineTransform start)
+    {
+        var t = start.TransformPoint(centerMm) - centerMm;
+        return kind switch
+        {
+            TransformKind.Translation => new TranslationTransform(t),
+            TransformKind.Rigid => new EulerRigidTransform(centerMm, EulerAngles(start.Linear), t),
+            TransformKind.Affine => new CenteredAffineTransform(centerMm, start.Linear, t),
+            _ => throw new ArgumentOutOfRangeException(nameof(kind)),
+        };
+    }
+
+    /// <summary>Angles (θx, θy, θz) with R = Rz·Rx·Ry (the inverse of <see cref="EulerRigidTransform.RotationOf"/>).</summary>
+    public static Vec3 EulerAngles(Mat3 r) =>
+        new(Math.Asin(Math.Clamp(r.M21, -1, 1)), Math.Atan2(-r.M20, r.M22), Math.Atan2(-r.M01, r.M11));
+
     /// <summary>A transform of <paramref name="kind"/> about <paramref name="centerMm"/>, starting as a pure translation.</summary>
     public static IParametricTransform Create(TransformKind kind, Vec3 centerMm, Vec3 translationMm) => kind switch
     {

@@ -52,6 +52,22 @@ public class RegistrarBehaviourTests
     }
 
     [Fact]
+    public void MovingMaskRestrictsTheSamplesAndStillAligns()
+    {
+        var (f, m, truth) = Pair.Value;
+        // The follow-up gland mask: the baseline gland carried by the true motion.
+        var movingGland = new Volume<byte>(Grid);
+        var inverse = truth.Inverse();
+        for (int k = 0; k < Grid.Size.Z; k++)
+            for (int j = 0; j < Grid.Size.Y; j++)
+                for (int i = 0; i < Grid.Size.X; i++)
+                    if (RegistrationPhantom.InGland(inverse.TransformPoint(Grid.IndexToPhysical(i, j, k)))) movingGland[i, j, k] = 1;
+        var r = Registrar.Register(f, m, Fast, RegistrationPhantom.GlandMask(Grid), null, movingGland);
+        Assert.True(RegistrationPhantom.GlandTre(Grid, r.Transform, truth) < 0.5);
+        Assert.Throws<RegistrationException>(() => Registrar.Register(f, m, Fast, null, null, new Volume<byte>(Grid)));
+    }
+
+    [Fact]
     public void MaskOnAnotherGridIsAnInputError()
     {
         var (f, m, _) = Pair.Value;
@@ -112,6 +128,28 @@ public class RegistrarBehaviourTests
     }
 
     [Fact]
+    public void AffinePresetRecoversScalingAndReportsProgress()
+    {
+        var (f, _, _) = Pair.Value;
+        var scale = new AffineTransform(Mat3.Diagonal(new Vec3(1.05, 0.96, 1.0)), Vec3.Zero);
+        var truth = RegistrationPhantom.Rigid(2, 0, -3, new Vec3(2, 1, -1)).After(
+            new AffineTransform(scale.Linear, RegistrationPhantom.GlandCenter - scale.Linear * RegistrationPhantom.GlandCenter));
+        var m = RegistrationPhantom.Render(Grid, truth, PhantomContrast.T2w, 0.03, 4);
+        var reports = new List<RegistrationProgress>();
+        var r = Registrar.Register(f, m, RegistrationOptions.Affine() with { Levels = Fast.Levels }, null, new SyncProgress(reports));
+        double tre = RegistrationPhantom.GlandTre(Grid, r.Transform, truth);
+        Assert.True(tre < 0.5, $"affine TRE {tre:F3} mm");
+        Assert.Equal("affine", r.TransformType);
+        Assert.Equal(r.Levels.Sum(l => l.Iterations), reports.Count);
+        Assert.All(reports, p => Assert.True(p.Level < p.LevelCount));
+    }
+
+    private sealed class SyncProgress(List<RegistrationProgress> sink) : IProgress<RegistrationProgress>
+    {
+        public void Report(RegistrationProgress value) => sink.Add(value);
+    }
+
+    [Fact]
     public void ImplausibleMotionIsFlagged()
     {
         var (f, _, _) = Pair.Value;
@@ -140,6 +178,16 @@ public class RegistrarBehaviourTests
         {
             File.Delete(path);
         }
+    }
+
+    [Fact]
+    public void SearchRangeBoundsTheCentreDisplacement()
+    {
+        var (f, m, truth) = Pair.Value;
+        var r = Registrar.Register(f, m, Fast with { MaxCenterDisplacementMm = 2 });
+        var c = r.CenterOfRotationMm;
+        Assert.True((truth.TransformPoint(c) - c).Norm > 4, "the true motion must exceed the range for this check");
+        Assert.True((r.Transform.TransformPoint(c) - c).Norm <= 2 + 1e-9);
     }
 
     [Fact]

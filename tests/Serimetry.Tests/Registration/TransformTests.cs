@@ -75,3 +75,36 @@ public class TransformTests
         Assert.True(r.IsOrthonormal(1e-12));
     }
 }
+
+/// <summary>Moments initialisation on an object fully in view (asymmetric ellipsoid: principal axes are defined).</summary>
+public class MomentsInitializationTests
+{
+    [Fact]
+    public void PrincipalAxesRecoverAKnownRotation()
+    {
+        var grid = Geometry.Axial(new Size3(64, 64, 64), new Vec3(1, 1, 1), new Vec3(-32, -32, -32));
+        var truth = new AffineTransform(EulerRigidTransform.RotationOf(0.1, -0.15, 0.5), new Vec3(3, -2, 4));
+        Volume<float> Render(AffineTransform t)
+        {
+            var inv = t.Inverse();
+            var v = new Volume<float>(grid);
+            for (int k = 0; k < 64; k++)
+                for (int j = 0; j < 64; j++)
+                    for (int i = 0; i < 64; i++)
+                    {
+                        var b = inv.TransformPoint(grid.IndexToPhysical(i, j, k));
+                        double r = b.X * b.X / 400 + b.Y * b.Y / 144 + b.Z * b.Z / 49;
+                        v[i, j, k] = r <= 1 ? 1 : 0;
+                    }
+            return v;
+        }
+        var start = TransformInitializer.Start(InitializationKind.Moments, Render(AffineTransform.Identity), Render(truth));
+        Assert.True(start.Linear.MaxAbsDifference(truth.Linear) < 0.03, $"{start.Linear} vs {truth.Linear}");
+        var p = new Vec3(5, 5, 5);
+        Assert.True((start.TransformPoint(p) - truth.TransformPoint(p)).Norm < 0.5);
+        var angles = TransformFactory.EulerAngles(truth.Linear);
+        Assert.Equal(0.1, angles.X, 9);
+        Assert.Equal(-0.15, angles.Y, 9);
+        Assert.Equal(0.5, angles.Z, 9);
+    }
+}
