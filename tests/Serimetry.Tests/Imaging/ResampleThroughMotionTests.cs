@@ -1,12 +1,12 @@
 using Serimetry.Engine.Core;
-using Serimetry.Engine.Registration;
+using Serimetry.Engine.Imaging;
 using Serimetry.Tests.Shared;
 using Xunit;
 
-namespace Serimetry.Tests.Registration;
+namespace Serimetry.Tests.Imaging;
 
 /// <summary>Resampling through a transform (property: identity resampling returns the input, common practice).</summary>
-public class ResamplerTests
+public class ResampleThroughMotionTests
 {
     private static readonly Geometry Grid = RegistrationPhantom.T2Grid(48, 48, 12, 2, 3);
 
@@ -14,7 +14,7 @@ public class ResamplerTests
     public void IdentityResamplingReturnsTheInput()
     {
         var image = RegistrationPhantom.Render(Grid, AffineTransform.Identity, PhantomContrast.T2w, 0.02, 5, sliceSubsamples: 1);
-        var same = Resampler.Resample(image, Grid, AffineTransform.Identity);
+        var same = Resampler.Resample(image, Grid, AffineTransform.Identity, Interpolation.Linear);
         for (int i = 0; i < image.Voxels.Length; i++) Assert.Equal(image.Voxels[i], same.Voxels[i], 5);
         var mask = RegistrationPhantom.GlandMask(Grid);
         Assert.Equal(mask.Voxels, Resampler.ResampleMask(mask, Grid, AffineTransform.Identity).Voxels);
@@ -26,7 +26,7 @@ public class ResamplerTests
         var truth = RegistrationPhantom.Rigid(0, 0, 0, new Vec3(4, -6, 3)); // whole-voxel shift: exact on this grid
         var moved = RegistrationPhantom.Render(Grid, truth, PhantomContrast.T2w, 0, 5, sliceSubsamples: 1);
         var baseline = RegistrationPhantom.Render(Grid, AffineTransform.Identity, PhantomContrast.T2w, 0, 5, sliceSubsamples: 1);
-        var back = Resampler.Resample(moved, Grid, truth, float.NaN);
+        var back = Resampler.Resample(moved, Grid, truth, Interpolation.Linear, float.NaN);
         int compared = 0;
         for (int i = 0; i < back.Voxels.Length; i++)
         {
