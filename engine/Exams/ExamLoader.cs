@@ -11,16 +11,19 @@ namespace Serimetry.Engine.Exams;
 /// <param name="LesionMask">A lesion outline given for this exam, or null.</param>
 public sealed record LoadedExam(Exam Exam, Volume<byte>? GlandMask, Volume<byte>? LesionMask);
 
-/// <summary>Loads an exam from a folder holding <c>exam.json</c> and NIfTI files.</summary>
+/// <summary>
+/// Loads an exam: a folder holding <c>exam.json</c> and NIfTI files (or the exam.json file itself), else a
+/// folder or .zip of DICOM files (<see cref="DicomExamLoader"/>).
+/// </summary>
 public static class ExamLoader
 {
-    /// <summary>Loads the exam at <paramref name="path"/> (a folder with exam.json, or the exam.json file itself).</summary>
     public static LoadedExam Load(string path)
     {
+        if (!Directory.Exists(path) && !File.Exists(path))
+            throw new InputFormatException("exam not found", path, "give an exam folder, a .zip of DICOM files, or an exam.json file");
         string manifestPath = Directory.Exists(path) ? Path.Combine(path, ExamManifest.FileName) : path;
-        if (!File.Exists(manifestPath))
-            throw new InputFormatException("no exam found", path,
-                "give a folder holding exam.json and NIfTI files (see README, 'Exams'); DICOM exam folders are read once the DICOM series reader is wired in");
+        if (!File.Exists(manifestPath) || !manifestPath.EndsWith(".json", StringComparison.OrdinalIgnoreCase))
+            return DicomExamLoader.Load(path);
         var m = ExamManifest.Load(manifestPath);
         string dir = Path.GetDirectoryName(Path.GetFullPath(manifestPath))!;
         string label = Path.GetFileName(dir);
