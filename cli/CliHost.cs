@@ -1,6 +1,7 @@
 using Serimetry.Cli.Verbs;
 using Serimetry.Engine;
 using Serimetry.Engine.Core;
+using Serimetry.Engine.Registration;
 
 namespace Serimetry.Cli;
 
@@ -51,6 +52,11 @@ internal static class CliHost
         {
             stderr.WriteLine($"serimetry {verb.Spec.Name}: error: {e.Describe()}");
             return ExitInput;
+        }
+        catch (RegistrationException e)
+        {
+            stderr.WriteLine($"serimetry {verb.Spec.Name}: registration failed: {e.Message}" + (e.Fix is null ? "" : $" ({e.Fix})"));
+            return ExitFailure;
         }
         catch (IOException e)
         {

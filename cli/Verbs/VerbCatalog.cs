@@ -6,6 +6,7 @@ internal static class VerbCatalog
     public static IReadOnlyList<IVerb> All { get; } =
     [
         new InspectVerb(),
+        new RegisterVerb(),
         new CompareVerb(),
         new DemoVerb(),
         new PhantomVerb(),

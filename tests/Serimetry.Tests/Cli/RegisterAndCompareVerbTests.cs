@@ -1,0 +1,84 @@
+using Serimetry.Cli;
+using Serimetry.Engine.Phantoms;
+using Serimetry.Engine.Registration;
+using Serimetry.Engine.Reports;
+using Xunit;
+
+namespace Serimetry.Tests.Cli;
+
+/// <summary>
+/// The register and compare verbs end to end on a digital phantom written to disk (Src: the phantom's known
+/// rigid motion in truth; the change.json contract of ARCHITECTURE.md).
+/// </summary>
+public sealed class RegisterAndCompareVerbTests : IDisposable
+{
+    private readonly string _dir = Directory.CreateTempSubdirectory("serimetry-verbs-").FullName;
+    private readonly PhantomSubject _subject;
+
+    public RegisterAndCompareVerbTests()
+    {
+        _subject = PhantomGenerator.Generate(new PhantomSpec() with
+        {
+            Seed = 41,
+            Visits = 2,
+            T2Grid = new PhantomGrid(140, 120, 20, 0.7, 0.7, 3.0),
+            DwiGrid = new PhantomGrid(50, 44, 20, 2.0, 2.0, 3.0),
+            PsaNgPerMl = [4.0, 4.4],
+        });
+        PhantomWriter.WriteNifti(_dir, _subject);
+    }
+
+    public void Dispose() => Directory.Delete(_dir, recursive: true);
+
+    private string P(params string[] parts) => Path.Combine([_dir, .. parts]);
+
+    private static (int Code, string Out, string Err) Run(params string[] args)
+    {
+        var o = new StringWriter();
+        var e = new StringWriter();
+        int code = CliHost.Run(args, o, e);
+        return (code, o.ToString(), e.ToString());
+    }
+
+    [Fact]
+    public void RegisterRecoversTheTrueMotion()
+    {
+        var (code, _, err) = Run("register", "--fixed", P("visit-0", "t2w.nii.gz"), "--moving", P("visit-1", "t2w.nii.gz"),
+            "--fixed-mask", P("visit-0", "masks", "gland.nii.gz"), "--out", P("transform.json"));
+        Assert.True(code == 0, err);
+        var stored = TransformFile.Read(P("transform.json"));
+        var truth = _subject.Visits[1].Truth.BaselineToVisit;
+        var gland = _subject.Visits[0].GlandMask;
+        double sum = 0;
+        int n = 0;
+        for (int i = 0; i < gland.Voxels.Length; i += 5)
+        {
+            if (gland.Voxels[i] == 0) continue;
+            int x = i % gland.Size.X, y = i / gland.Size.X % gland.Size.Y, z = i / (gland.Size.X * gland.Size.Y);
+            var p = gland.Geometry.IndexToPhysical(x, y, z);
+            sum += (stored.Transform.TransformPoint(p) - truth.TransformPoint(p)).Norm;
+            n++;
+        }
+        Assert.True(sum / n <= 0.5, $"mean TRE {sum / n:F3} mm");
+    }
+
+    [Fact]
+    public void CompareWritesTheContractFilesAndRefusesBadPsa()
+    {
+        var (code, stdout, err) = Run("compare", "--baseline", P("visit-0"), "--followup", P("visit-1"),
+            "--gland", P("visit-0", "masks", "gland.nii.gz"), "--lesion", P("visit-0", "masks", "lesion.nii.gz"),
+            "--psa", "2022-03-14=4.0", "--psa", "2023-09-14=4.4", "--out", P("out"));
+        Assert.True(code == 0, err + stdout);
+        foreach (var f in new[] { "change.json", "measures.csv", "changes.csv", "report.html", "visit-1-t2w.png" })
+            Assert.True(File.Exists(P("out", f)), f);
+        var report = ChangeReportJson.Deserialize(File.ReadAllText(P("out", "change.json")));
+        Assert.Equal(2, report.Visits.Count);
+        Assert.Contains(report.Changes, c => c.Measure == "lesion.volume" && c.FromVisit == 0 && c.ToVisit == 1 && c.Ci95 is { Length: 2 });
+        Assert.Contains("Caution", stdout);
+
+        var bad = Run("compare", "--baseline", P("visit-0"), "--followup", P("visit-1"), "--psa", "14/03/2022=4", "--out", P("out2"));
+        Assert.Equal(CliHost.ExitUsage, bad.Code);
+        Assert.Contains("YYYY-MM-DD", bad.Err);
+        Assert.False(Directory.Exists(P("out2")));
+    }
+}
