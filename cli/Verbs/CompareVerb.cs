@@ -13,10 +13,10 @@ namespace Serimetry.Cli.Verbs;
 internal sealed class CompareVerb : IVerb
 {
     public VerbSpec Spec { get; } = new("compare",
-        "Measure change between a baseline exam and one or more follow-up exams.",
+        "Measure change between a baseline exam and one or more follow-up exams",
         "--baseline EXAM --followup EXAM [--followup EXAM …] --out DIR [options]",
         [
-            new("baseline", "EXAM", "baseline exam: a folder holding exam.json and NIfTI files", Required: true),
+            new("baseline", "EXAM", "baseline exam: a folder with exam.json and NIfTI files, or a folder/.zip of DICOM files", Required: true),
             new("followup", "EXAM", "follow-up exam", Repeatable: true, Required: true),
             new("out", "DIR", "output folder (change.json, measures.csv, changes.csv, report.html, PNGs)", Required: true),
             new("gland", "MASK", "baseline whole-gland outline (NIfTI); default: the baseline exam's own"),
@@ -27,8 +27,9 @@ internal sealed class CompareVerb : IVerb
             new("no-within-exam", null, "trust the scanner geometry between ADC and T2w instead of aligning them"),
             new("allow-different-patients", null, "compare exams whose patient IDs differ"),
             new("threads", "N", "threads to use (default: all cores)"),
+            new("plugins", "DIR", "load measure plugins (assemblies with public IMeasure types) from DIR"),
         ],
-        Details: "Exams are folders with exam.json (see README). Every follow-up is aligned to the baseline, the baseline\n" +
+        Details: "Exams are folders with exam.json or DICOM folders/zips (see README). Every follow-up is aligned to the baseline, the baseline\n" +
                  "outlines are carried onto it and the lesion is re-fitted on its own images.");
 
     public int Run(ParsedArgs args, CliContext ctx)
@@ -51,7 +52,8 @@ internal sealed class CompareVerb : IVerb
             AllowDifferentPatients: args.Has("allow-different-patients"),
             FollowupPreset: args.Get("followup-preset") ?? "rigid",
             WithinExamPreset: args.Has("no-within-exam") ? null : "within-exam",
-            MaxThreads: args.GetInt("threads", -1, 1, 256));
+            MaxThreads: args.GetInt("threads", -1, 1, 256),
+            PluginFolder: args.Get("plugins"));
         if (options.FollowupPreset is not ("rigid" or "affine"))
             throw new UsageException($"option '--followup-preset' must be rigid or affine, got '{options.FollowupPreset}'");
         return new CompareRequest(args.Required("baseline"), args.GetAll("followup"), args.Get("gland"), args.Get("lesion"), psa, profile, options);

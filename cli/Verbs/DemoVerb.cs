@@ -8,7 +8,7 @@ namespace Serimetry.Cli.Verbs;
 internal sealed class DemoVerb : IVerb
 {
     public VerbSpec Spec { get; } = new("demo",
-        "Generate the invented demo subject (3 visits, growing lesion, motion) and run compare on it.",
+        "Generate the invented demo subject (3 visits, growing lesion, motion) and run compare on it",
         "--out DIR [--seed N] [--threads N]",
         [
             new("out", "DIR", "output folder: exams/ (the generated visits with truth.json) and the comparison's files", Required: true),

@@ -13,7 +13,7 @@ internal sealed class InspectVerb : IVerb
 {
     public VerbSpec Spec { get; } = new(
         "inspect",
-        "list studies and series (role, size, spacing, origin, direction, b-values, acquisition)",
+        "List studies and series (role, size, spacing, origin, direction, b-values, acquisition)",
         "PATH [--json] [--role SERIES_UID=ROLE ...]",
         [
             new OptionSpec("json", null, "print JSON (for one DICOM file: transfer syntax, size and per-frame pixel statistics)"),

@@ -10,7 +10,7 @@ namespace Serimetry.Cli.Verbs;
 internal sealed class RegisterVerb : IVerb
 {
     public VerbSpec Spec { get; } = new("register",
-        "Align a moving image to a fixed image and write the transform (fixed LPS mm -> moving LPS mm).",
+        "Align a moving image to a fixed image and write the transform (fixed LPS mm -> moving LPS mm)",
         "--fixed IMG --moving IMG --out transform.json [--preset NAME] [--fixed-mask MASK] [--resampled OUT.nii.gz]",
         [
             new("fixed", "IMG", "fixed (baseline) image: NIfTI, or DICOM file/folder/zip", Required: true),

@@ -56,6 +56,7 @@ public static class ComparePipeline
         if (lesion0 is not null) aligned = RefitLesions(aligned, exams, lesion0, gland0, request.Options.RefitSettings, problems);
 
         var registry = MeasureRegistry.CreateDefault();
+        if (request.Options.PluginFolder is string plugins) registry.LoadPlugins(plugins);
         var inputs = new List<VisitInput>();
         for (int k = 0; k < aligned.Count; k++)
         {

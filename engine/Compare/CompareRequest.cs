@@ -26,12 +26,14 @@ public sealed record CompareRequest(
 /// <param name="WithinExamPreset">Registration preset for ADC → T2w inside each exam, or null to trust the scanner geometry.</param>
 /// <param name="Refit">Lesion re-fit settings.</param>
 /// <param name="MaxThreads">Threads for parallel loops (-1: all cores).</param>
+/// <param name="PluginFolder">Folder of measure plugin assemblies to load beside the built-ins, or null.</param>
 public sealed record ComparisonOptions(
     bool AllowDifferentPatients = false,
     string FollowupPreset = "rigid",
     string? WithinExamPreset = "within-exam",
     LesionRefitSettings? Refit = null,
-    int MaxThreads = -1)
+    int MaxThreads = -1,
+    string? PluginFolder = null)
 {
     public LesionRefitSettings RefitSettings => Refit ?? new LesionRefitSettings();
 }
