@@ -1,4 +1,5 @@
 using Serimetry.Engine.Core;
+using Serimetry.Engine.Imaging;
 
 namespace Serimetry.Engine.Measures;
 
@@ -14,34 +15,8 @@ internal static class MaskGrid
     /// nearest-neighbour transfer (each target voxel takes the label of the source voxel containing its
     /// centre; outside the source grid is 0).
     /// </summary>
-    public static Volume<byte> OnGrid(Volume<byte> mask, Geometry target)
-    {
-        if (mask.Geometry.IsCongruentWith(target)) return mask;
-        var src = mask.Geometry;
-        Mat3 a = src.PhysicalToIndexMatrix * target.IndexToPhysicalMatrix;
-        Vec3 b = src.PhysicalToIndex(target.OriginMm);
-        var result = new Volume<byte>(target);
-        byte[] dst = result.Voxels, from = mask.Voxels;
-        int nx = target.Size.X, ny = target.Size.Y, sx = src.Size.X, sy = src.Size.Y, sz = src.Size.Z;
-        ParallelRange.For(target.Size.Z, 1, (_, k0, k1) =>
-        {
-            for (int k = k0; k < k1; k++)
-                for (int j = 0; j < ny; j++)
-                {
-                    Vec3 row = b + a * new Vec3(0, j, k);
-                    Vec3 step = a.Column(0);
-                    int o = nx * (j + ny * k);
-                    for (int i = 0; i < nx; i++)
-                    {
-                        Vec3 c = row + i * step;
-                        int si = (int)Math.Floor(c.X + 0.5), sj = (int)Math.Floor(c.Y + 0.5), sk = (int)Math.Floor(c.Z + 0.5);
-                        if ((uint)si < (uint)sx && (uint)sj < (uint)sy && (uint)sk < (uint)sz)
-                            dst[o + i] = from[si + sx * (sj + sy * sk)];
-                    }
-                }
-        });
-        return result;
-    }
+    public static Volume<byte> OnGrid(Volume<byte> mask, Geometry target) =>
+        mask.Geometry.IsCongruentWith(target) ? mask : Resampler.ResampleMask(mask, target, null, MaskInterpolation.Nearest);
 
     /// <summary>Number of non-zero voxels.</summary>
     public static int Count(ReadOnlySpan<byte> mask)

@@ -1,4 +1,5 @@
 using Serimetry.Engine.Core;
+using Serimetry.Engine.Imaging.Morphology;
 
 namespace Serimetry.Engine.Measures;
 
@@ -14,40 +15,6 @@ internal static class PeriLesionalShell
     public static byte[] Build(Volume<byte> lesion, Volume<byte> gland, double distanceMm)
     {
         lesion.Geometry.RequireCongruent(gland.Geometry, "lesion and gland masks");
-        var s = lesion.Size;
-        var offsets = Offsets(lesion.Geometry, distanceMm);
-        var l = lesion.Voxels;
-        var shell = new byte[l.Length];
-        for (int k = 0; k < s.Z; k++)
-            for (int j = 0; j < s.Y; j++)
-                for (int i = 0; i < s.X; i++)
-                {
-                    if (l[i + s.X * (j + s.Y * k)] == 0) continue;
-                    foreach (var (di, dj, dk) in offsets)
-                    {
-                        int a = i + di, b = j + dj, c = k + dk;
-                        if ((uint)a < (uint)s.X && (uint)b < (uint)s.Y && (uint)c < (uint)s.Z)
-                            shell[a + s.X * (b + s.Y * c)] = 1;
-                    }
-                }
-        var g = gland.Voxels;
-        for (int o = 0; o < shell.Length; o++)
-            if (l[o] != 0 || g[o] == 0) shell[o] = 0;
-        return shell;
-    }
-
-    /// <summary>Index offsets whose physical length is at most <paramref name="distanceMm"/>.</summary>
-    internal static List<(int, int, int)> Offsets(Geometry g, double distanceMm)
-    {
-        var m = g.IndexToPhysicalMatrix;
-        // A step of one index along axis c moves spacing_c mm, so |offset_c| ≤ d / spacing_c bounds the search.
-        int ri = (int)Math.Floor(distanceMm / g.SpacingMm.X), rj = (int)Math.Floor(distanceMm / g.SpacingMm.Y),
-            rk = (int)Math.Floor(distanceMm / g.SpacingMm.Z);
-        var list = new List<(int, int, int)>();
-        for (int c = -rk; c <= rk; c++)
-            for (int b = -rj; b <= rj; b++)
-                for (int a = -ri; a <= ri; a++)
-                    if ((m * new Vec3(a, b, c)).Norm <= distanceMm + 1e-9) list.Add((a, b, c));
-        return list;
+        return MaskOps.Subtract(MaskOps.And(MaskOps.Dilate(lesion, distanceMm), gland), lesion).Voxels;
     }
 }
