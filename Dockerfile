@@ -7,9 +7,8 @@ RUN dotnet publish cli/Serimetry.Cli.csproj -c Release -o /app --nologo
 FROM mcr.microsoft.com/dotnet/aspnet:10.0
 WORKDIR /app
 COPY --from=build /app .
-ENV SERIMETRY_DATA=/data
 VOLUME ["/data"]
-EXPOSE 8080
 USER app
 ENTRYPOINT ["dotnet", "serimetry.dll"]
-CMD ["serve", "--urls", "http://0.0.0.0:8080"]
+# The HTTP service (`serve`) is being built; until then the image runs the demo into the data volume.
+CMD ["demo", "--out", "/data/demo"]
