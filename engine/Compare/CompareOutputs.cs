@@ -27,14 +27,11 @@ public static class CompareOutputs
         return written;
     }
 
+    /// <summary>The lesion's ADC samples exactly as the ADC measures take them (native ADC grid, no interpolation).</summary>
     private static IReadOnlyList<double> LesionAdc(VisitImages v)
     {
         var mask = v.Lesion?.Mask ?? v.PropagatedLesion;
-        if (mask is null) return [];
-        var values = new List<double>();
-        for (int n = 0; n < mask.Voxels.Length; n++)
-            if (mask.Voxels[n] != 0 && float.IsFinite(v.AdcOnT2w.Voxels[n])) values.Add(v.AdcOnT2w.Voxels[n]);
-        return values;
+        return mask is null ? [] : Measures.LesionAdcSamples.Gather(v.AdcInT2wFrame, mask).Values.Select(x => (double)x).ToList();
     }
 
     private static IEnumerable<ReportPicture> WritePictures(VisitImages v, string outDir)

@@ -115,8 +115,9 @@ public static class ComparePipeline
         var within = WithinExam(exam, options, flags);
         var adcTransform = within?.Transform ?? AffineTransform.Identity;
         var adcOnT2w = Resampler.Resample(exam.Adc, exam.T2w.Geometry, adcTransform, Interpolation.Linear, float.NaN);
+        var adcInFrame = InT2wFrame(exam.Adc, adcTransform, adcOnT2w);
         if (index == 0)
-            return new VisitImages(0, exam, adcOnT2w, within, null, gland0, lesion0, null, flags);
+            return new VisitImages(0, exam, adcOnT2w, adcInFrame, within, null, gland0, lesion0, null, flags);
 
         RegistrationResult toBaseline;
         try
@@ -128,7 +129,7 @@ public static class ComparePipeline
         {
             problems.Add($"visit {index}: alignment to baseline failed: {e.Message}");
             flags.Add("not aligned: " + e.Message);
-            return new VisitImages(index, exam, adcOnT2w, within, null, null, null, null, flags);
+            return new VisitImages(index, exam, adcOnT2w, adcInFrame, within, null, null, null, null, flags);
         }
         var toVisitGrid = toBaseline.Transform.Inverse();
         var gland = loaded.GlandMask is { } own ? OnGrid(own, exam.T2w.Geometry, $"visit {index} gland mask")
@@ -139,7 +140,20 @@ public static class ComparePipeline
             problems.Add($"visit {index}: the gland carried from baseline falls outside this exam's images");
             flags.Add("gland outside field of view after alignment");
         }
-        return new VisitImages(index, exam, adcOnT2w, within, toBaseline, gland, lesion, null, flags);
+        return new VisitImages(index, exam, adcOnT2w, adcInFrame, within, toBaseline, gland, lesion, null, flags);
+    }
+
+    /// <summary>
+    /// The ADC map with its grid moved into the T2w frame: for a rigid within-exam transform W (T2w point →
+    /// ADC point) the voxel at index c sits at W⁻¹(origin + D·S·c), again a valid grid, so ADC statistics use
+    /// the scanner's own samples without interpolation. A non-rigid W falls back to the resampled map.
+    /// </summary>
+    private static Volume<float> InT2wFrame(Volume<float> adc, AffineTransform w, Volume<float> resampled)
+    {
+        var inverse = w.Inverse();
+        var direction = inverse.Linear * adc.Geometry.Direction;
+        if (!direction.IsOrthonormal(1e-6)) return resampled;
+        return new Volume<float>(adc.Geometry.With(originMm: inverse.TransformPoint(adc.Geometry.OriginMm), direction: direction), adc.Voxels);
     }
 
     private static RegistrationResult? WithinExam(Exam exam, ComparisonOptions options, List<string> flags)
@@ -189,7 +203,7 @@ public static class ComparePipeline
     {
         var ctx = new VisitContext(v.Index, v.Exam.Date, v.Exam.T2w)
         {
-            Adc = v.AdcOnT2w,
+            Adc = v.AdcInT2wFrame,
             GlandMask = v.Gland,
             LesionMask = v.Lesion?.Mask ?? v.PropagatedLesion,
             PsaNgPerMl = PsaKinetics.ValueNear(psa, v.Exam.Date),
