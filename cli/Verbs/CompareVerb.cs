@@ -3,6 +3,7 @@ using Serimetry.Engine;
 using Serimetry.Engine.Change;
 using Serimetry.Engine.Compare;
 using Serimetry.Engine.Core;
+using Serimetry.Engine.Radiomics;
 using Serimetry.Engine.Reports;
 using Serimetry.Engine.Reports.Html;
 using Serimetry.Engine.Repeatability;
@@ -28,6 +29,8 @@ internal sealed class CompareVerb : IVerb
             new("allow-different-patients", null, "compare exams whose patient IDs differ"),
             new("threads", "N", "threads to use (default: all cores)"),
             new("plugins", "DIR", "load measure plugins (assemblies with public IMeasure types) from DIR"),
+            new("radiomics-settings", "FILE", "IBSI feature settings (JSON, docs/radiomics.md) for radiomics.csv"),
+            new("no-radiomics", null, "skip the per-visit radiomic features"),
         ],
         Details: "Exams are folders with exam.json or DICOM folders/zips (see README). Every follow-up is aligned to the baseline, the baseline\n" +
                  "outlines are carried onto it and the lesion is re-fitted on its own images.");
@@ -53,10 +56,17 @@ internal sealed class CompareVerb : IVerb
             FollowupPreset: args.Get("followup-preset") ?? "rigid",
             WithinExamPreset: args.Has("no-within-exam") ? null : "within-exam",
             MaxThreads: args.GetInt("threads", -1, 1, 256),
-            PluginFolder: args.Get("plugins"));
+            PluginFolder: args.Get("plugins"),
+            Radiomics: RadiomicsOption(args));
         if (options.FollowupPreset is not ("rigid" or "affine"))
             throw new UsageException($"option '--followup-preset' must be rigid or affine, got '{options.FollowupPreset}'");
         return new CompareRequest(args.Required("baseline"), args.GetAll("followup"), args.Get("gland"), args.Get("lesion"), psa, profile, options);
+    }
+
+    private static RadiomicsSettings? RadiomicsOption(ParsedArgs args)
+    {
+        if (args.Has("no-radiomics")) return null;
+        return args.Get("radiomics-settings") is string f ? RadiomicsSettingsJson.Parse(File.ReadAllText(f), f) : new RadiomicsSettings();
     }
 
     private static PsaSample ParsePsa(string text)

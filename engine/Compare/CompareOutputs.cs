@@ -22,6 +22,8 @@ public static class CompareOutputs
             v.Exam.Date.ToString("yyyy-MM-dd", System.Globalization.CultureInfo.InvariantCulture), LesionAdc(v))).ToList();
         WriteAtomically(Path.Combine(outDir, "report.html"), HtmlReport.Render(result.Report, pictures, adc));
         TidyCsv.WriteAll(result.Report, outDir);
+        if (result.Radiomics.Count > 0) written.AddRange(VisitRadiomics.Write(result.Radiomics, outDir));
+        // change.json last: its presence means every other file is complete.
         WriteAtomically(Path.Combine(outDir, "change.json"), ChangeReportJson.Serialize(result.Report) + "\n");
         written.AddRange(["report.html", "measures.csv", "changes.csv", "change.json"]);
         return written;

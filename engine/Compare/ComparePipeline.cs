@@ -14,13 +14,17 @@ namespace Serimetry.Engine.Compare;
 /// <summary>The result of a comparison: the change report and the aligned visits behind its pictures.</summary>
 public sealed class CompareResult
 {
-    internal CompareResult(ChangeReport report, IReadOnlyList<VisitImages> visits)
+    internal CompareResult(ChangeReport report, IReadOnlyList<VisitImages> visits, IReadOnlyList<Radiomics.Series.VisitFeatures> radiomics)
     {
         Report = report;
         Visits = visits;
+        Radiomics = radiomics;
     }
 
     public ChangeReport Report { get; }
+
+    /// <summary>Per-visit IBSI features by region (empty when radiomics were not requested).</summary>
+    public IReadOnlyList<Radiomics.Series.VisitFeatures> Radiomics { get; }
 
     internal IReadOnlyList<VisitImages> Visits { get; }
 }
@@ -63,12 +67,13 @@ public static class ComparePipeline
             progress?.Report(new CompareProgress($"measuring visit {k}", (double)(2 * exams.Count + 1 + k) / (total + exams.Count)));
             inputs.Add(Measure(aligned[k], registry, request.Psa));
         }
+        var radiomics = request.Options.Radiomics is { } rs ? VisitRadiomics.Extract(aligned, rs, problems) : [];
         var acquisitions = aligned.Select(v => new VisitAcquisition(v.Index, v.Exam.T2wAcquisition, v.Exam.AdcAcquisition,
             v.Exam.BValues, v.Exam.T2w.Geometry.SpacingMm, v.Exam.Adc.Geometry.SpacingMm, v.Exam.AdcSource)).ToList();
         var report = ChangeReportBuilder.Build(inputs, registry.All.Select(MeasureDescriptor.From).ToList(), request.Profile,
             request.Psa, acquisitions, problems: problems, extraSettings: Settings(request.Options));
         progress?.Report(new CompareProgress("done", 1));
-        return new CompareResult(report, aligned);
+        return new CompareResult(report, aligned, radiomics);
     }
 
     private static List<LoadedExam> LoadExams(CompareRequest request)

@@ -27,13 +27,15 @@ public sealed record CompareRequest(
 /// <param name="Refit">Lesion re-fit settings.</param>
 /// <param name="MaxThreads">Threads for parallel loops (-1: all cores).</param>
 /// <param name="PluginFolder">Folder of measure plugin assemblies to load beside the built-ins, or null.</param>
+/// <param name="Radiomics">IBSI feature settings for the per-visit radiomics, or null to skip them.</param>
 public sealed record ComparisonOptions(
     bool AllowDifferentPatients = false,
     string FollowupPreset = "rigid",
     string? WithinExamPreset = "within-exam",
     LesionRefitSettings? Refit = null,
     int MaxThreads = -1,
-    string? PluginFolder = null)
+    string? PluginFolder = null,
+    Radiomics.RadiomicsSettings? Radiomics = null)
 {
     public LesionRefitSettings RefitSettings => Refit ?? new LesionRefitSettings();
 }

@@ -30,7 +30,7 @@ public static class DemoRun
             Path.Combine(Visit(0), "masks", "lesion.nii.gz"),
             psa,
             RepeatabilityProfile.LoadDefault(),
-            new ComparisonOptions(MaxThreads: maxThreads));
+            new ComparisonOptions(MaxThreads: maxThreads, Radiomics: new Radiomics.RadiomicsSettings()));
         var result = ComparePipeline.Run(request, progress);
         CompareOutputs.Write(result, outDir);
         return new DemoResult(subject, result, exams, outDir);

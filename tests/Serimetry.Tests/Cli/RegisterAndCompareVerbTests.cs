@@ -76,6 +76,18 @@ public sealed class RegisterAndCompareVerbTests : IDisposable
         Assert.Contains(report.Changes, c => c.Measure == "lesion.volume" && c.FromVisit == 0 && c.ToVisit == 1 && c.Ci95 is { Length: 2 });
         Assert.Contains("Caution", stdout);
 
+        // radiomics.csv: IBSI voxel-counting volume (YEKZ, mm³) of the lesion region equals lesion.volume (mL) of
+        // the same visit — two independent implementations over the same re-fitted outline.
+        var rows = File.ReadAllLines(P("out", "radiomics.csv"));
+        Assert.Equal("visit,date,region,family,feature,ibsiCode,aggregationCode,value", rows[0]);
+        foreach (var v in report.Visits)
+        {
+            var row = rows.Single(r => r.StartsWith($"{v.Index},", StringComparison.Ordinal) && r.Contains(",lesion.t2w,") && r.Contains(",YEKZ,"));
+            double mm3 = double.Parse(row[(row.LastIndexOf(',') + 1)..], System.Globalization.CultureInfo.InvariantCulture);
+            Assert.Equal(v.Values["lesion.volume"].Value!.Value * 1000, mm3, 6);
+        }
+        Assert.True(File.Exists(P("out", "radiomics-deltas-visit-1.csv")));
+
         var bad = Run("compare", "--baseline", P("visit-0"), "--followup", P("visit-1"), "--psa", "14/03/2022=4", "--out", P("out2"));
         Assert.Equal(CliHost.ExitUsage, bad.Code);
         Assert.Contains("YYYY-MM-DD", bad.Err);
