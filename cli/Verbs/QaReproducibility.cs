@@ -1,5 +1,6 @@
 using System.Globalization;
 using Serimetry.Engine;
+using Serimetry.Engine.Compare;
 using Serimetry.Engine.Phantoms;
 using Serimetry.Engine.Repeatability;
 

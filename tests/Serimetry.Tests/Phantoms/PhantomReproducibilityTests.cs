@@ -1,3 +1,4 @@
+using Serimetry.Engine.Compare;
 using Serimetry.Engine.Phantoms;
 using Serimetry.Engine.Repeatability;
 using Xunit;
@@ -44,14 +45,5 @@ public sealed class PhantomReproducibilityTests
         var abs = new RepeatabilityEntry("y", ErrorScale.Absolute, 10, null, "mm", "t");
         Assert.True(PhantomReproducibility.Exceeds(abs, 0, 27.8));
         Assert.False(PhantomReproducibility.Exceeds(abs, 0, 27.6));
-    }
-
-    [Fact]
-    public void PercentileInterpolatesBetweenOrderStatistics()
-    {
-        // Common practice (linear interpolation at rank p·(n−1), the default of R type 7).
-        double[] x = [1, 2, 3, 4, 5];
-        Assert.Equal(3, PhantomQaMeasures.Percentile(x, 50));
-        Assert.Equal(1.4, PhantomQaMeasures.Percentile(x, 10), 12);
     }
 }

@@ -1,7 +1,8 @@
 using System.Text.Json;
+using Serimetry.Engine.Phantoms;
 using Serimetry.Engine.Repeatability;
 
-namespace Serimetry.Engine.Phantoms;
+namespace Serimetry.Engine.Compare;
 
 /// <summary>
 /// Writes a phantom QA run as a repeatability profile JSON (loadable by <see cref="RepeatabilityProfile.Load"/>)

@@ -1,7 +1,11 @@
 using Serimetry.Engine.Core;
+using Serimetry.Engine.Imaging;
+using Serimetry.Engine.Imaging.Morphology;
+using Serimetry.Engine.Measures;
+using Serimetry.Engine.Phantoms;
 using Serimetry.Engine.Repeatability;
 
-namespace Serimetry.Engine.Phantoms;
+namespace Serimetry.Engine.Compare;
 
 /// <summary>How often pairs of re-acquisitions without true change were flagged as change.</summary>
 /// <param name="Measure">Measure id.</param>
@@ -25,8 +29,10 @@ public sealed record PhantomReproducibilityReport(int Repeats, IReadOnlyList<Rep
 
 /// <summary>
 /// Phantom QA run: R noisy re-acquisitions of one phantom (same anatomy and position, only the noise seed
-/// differs, so there is no true change), the phantom QA measures on each, their repeatability, and the rate at
-/// which "change exceeds noise" would be flagged between re-acquisitions — the engine's own noise floor.
+/// differs, so there is no true change), measured exactly as <c>compare</c> measures a visit (the lesion
+/// re-fitted from the phantom's outline with <see cref="LesionRefit"/>, then every registered measure), their
+/// repeatability, and the rate at which "change exceeds noise" would be flagged between re-acquisitions — the
+/// engine's own noise floor. No registration is involved (the phantom does not move between repeats).
 /// </summary>
 public static class PhantomReproducibility
 {
@@ -44,12 +50,28 @@ public static class PhantomReproducibility
         {
             var visit = PhantomGenerator.Generate(single with { NoiseSeed = unchecked((spec.NoiseSeed ?? spec.Seed) + 1000 * (r + 1)) },
                 maxDegreeOfParallelism).Visits[0];
-            foreach (var (m, v) in PhantomQaMeasures.Measure(visit)) rows.Add(new RepeatabilityObservation(spec.SubjectId, m, $"r{r + 1}", v));
+            foreach (var (m, v) in MeasureVisit(visit)) rows.Add(new RepeatabilityObservation(spec.SubjectId, m, $"r{r + 1}", v));
             progress?.Invoke(r + 1);
         }
         var stats = TestRetestAnalysis.Analyse(rows);
         var rates = stats.Measures.Select(m => Rate(m, rows.Where(x => x.Measure == m.Measure).Select(x => x.Value).ToArray(), profile)).ToList();
         return new PhantomReproducibilityReport(repeats, rows, stats, rates, profile.Name);
+    }
+
+    /// <summary>The visit's measures with status ok, measured as the comparison pipeline measures a visit.</summary>
+    internal static IEnumerable<(string Measure, double Value)> MeasureVisit(PhantomVisit visit)
+    {
+        var settings = new LesionRefitSettings();
+        var gland = MaskOps.Binarize(visit.GlandMask);
+        var lesion = MaskOps.Binarize(visit.LesionMask);
+        var adcOnT2w = Resampler.Resample(visit.Adc, visit.T2w.Geometry, null, Interpolation.Linear, float.NaN);
+        var model = LesionRefit.Learn(visit.T2w, adcOnT2w, lesion, gland, settings);
+        var refit = LesionRefit.Refit(visit.T2w, adcOnT2w, lesion, gland, model, settings);
+        var context = new VisitContext(0, visit.Date, visit.T2w) { Adc = visit.Adc, GlandMask = gland, LesionMask = refit.Mask };
+        return MeasureRunner.Run(MeasureRegistry.CreateDefault().All, context)
+            .Where(p => p.Value.Status == MeasureStatus.Ok && p.Value.Value is not null)
+            .OrderBy(p => p.Key, StringComparer.Ordinal)
+            .Select(p => (p.Key, p.Value.Value!.Value));
     }
 
     private static FalsePositiveRate Rate(MeasureRepeatability m, double[] values, RepeatabilityProfile profile)
