@@ -3,6 +3,8 @@ using BenchmarkDotNet.Running;
 // Whole-pipeline comparisons take a verb; everything else goes to BenchmarkDotNet.
 if (args.Length > 0 && args[0] == "registration-vs-elastix")
     return Serimetry.Bench.RegistrationVsElastix.Run(args[1..]);
+if (args.Length > 0 && args[0] == "compare-speed")
+    return Serimetry.Bench.CompareSpeed.Run(args[1..]);
 if (args.Length > 0 && args[0] == "compare-sweep")
     return Serimetry.Bench.CompareSweep.Run(args[1..]);
 

@@ -67,6 +67,7 @@ public static class ComparePipeline
             progress?.Report(new CompareProgress($"measuring visit {k}", (double)(2 * exams.Count + 1 + k) / (total + exams.Count)));
             inputs.Add(Measure(aligned[k], registry, request.Psa));
         }
+        if (request.Options.Radiomics is not null) progress?.Report(new CompareProgress("radiomic features", 0.97));
         var radiomics = request.Options.Radiomics is { } rs ? VisitRadiomics.Extract(aligned, rs, problems) : [];
         var acquisitions = aligned.Select(v => new VisitAcquisition(v.Index, v.Exam.T2wAcquisition, v.Exam.AdcAcquisition,
             v.Exam.BValues, v.Exam.T2w.Geometry.SpacingMm, v.Exam.Adc.Geometry.SpacingMm, v.Exam.AdcSource)).ToList();
