@@ -1,7 +1,6 @@
 using Serimetry.Engine.Core;
-using Serimetry.Tests.Shared;
 
-namespace Serimetry.Tests.Registration;
+namespace Serimetry.Tests.Shared;
 
 /// <summary>
 /// The analytic registration phantom seen through a known smooth deformation (test-side truth):
@@ -10,7 +9,7 @@ namespace Serimetry.Tests.Registration;
 /// The follow-up image shows body point φ⁻¹(y) at scanner point y (φ⁻¹ by fixed-point iteration, a
 /// contraction because |∇d| &lt; 1).
 /// </summary>
-internal sealed record DeformedPhantom(double Kappa, int Axis, double SigmaMm, Vec3 ShiftMm) : ISpatialTransform
+public sealed record DeformedPhantom(double Kappa, int Axis, double SigmaMm, Vec3 ShiftMm) : ISpatialTransform
 {
     public Vec3 TransformPoint(Vec3 b) => b + ShiftMm + Displacement(b);
 
