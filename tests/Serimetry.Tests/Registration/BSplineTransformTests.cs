@@ -160,6 +160,19 @@ public class BSplineTransformTests
     }
 
     [Fact]
+    public void InvalidStageSettingsAreParameterErrors()
+    {
+        var grid = RegistrationPhantom.T2Grid(24, 24, 6, 2, 3);
+        var f = RegistrationPhantom.Render(grid, AffineTransform.Identity, PhantomContrast.T2w, 0.01, 3);
+        var bad = RegistrationOptions.ForPreset("deformable") with { BSpline = new BSplineStageOptions { GridSpacingMm = 0 } };
+        var e = Assert.Throws<InvalidParameterException>(() => Registrar.Register(f, f, bad));
+        Assert.Contains("B-spline", e.Message);
+        Assert.Throws<InvalidParameterException>(() => BSplineDeformation.Covering(grid, -1, AffineTransform.Identity));
+        Assert.Throws<InvalidParameterException>(() => new BSplineDeformation(AffineTransform.Identity, Vec3.Zero, new Vec3(10, 10, 10),
+            new Size3(4, 4, 4), Mat3.Identity, new double[5]));
+    }
+
+    [Fact]
     public void DeformablePresetIsNamed()
     {
         Assert.Contains("deformable", RegistrationOptions.PresetNames);

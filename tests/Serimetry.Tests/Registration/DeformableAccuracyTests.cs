@@ -59,6 +59,25 @@ public class DeformableAccuracyTests(ITestOutputHelper output)
         Assert.InRange(ratio, 0.99, 1.01);
     }
 
+    [Fact]
+    public void SameResultWithAnyThreadCount()
+    {
+        // Src: project rule — results must not depend on the number of threads.
+        var grid = RegistrationPhantom.T2Grid(40, 40, 10, 1.5, 3.0);
+        var truth = new DeformedPhantom(0.10, 0, 25, Vec3.Zero);
+        var f = RegistrationPhantom.Render(grid, AffineTransform.Identity, PhantomContrast.T2w, 0.02, 41);
+        var m = truth.Render(grid, 0.02, 42);
+        var options = RegistrationOptions.ForPreset("deformable") with
+        {
+            Levels = [new(2, 3000, 30, 1, 0.01)],
+            BSpline = new BSplineStageOptions { Levels = [new(1, 5000, 15, 2, 0.01)] },
+        };
+        var one = Registrar.Register(f, m, options with { MaxThreads = 1 }).Deformation!;
+        var many = Registrar.Register(f, m, options with { MaxThreads = 4 }).Deformation!;
+        Assert.Equal(one.Coefficients, many.Coefficients);
+        Assert.Contains(one.Coefficients, c => c != 0);
+    }
+
     internal static IEnumerable<Vec3> GlandPoints(Volume<byte> mask)
     {
         var g = mask.Geometry;
