@@ -61,7 +61,7 @@ internal static class DeformableStage
             q.CopyTo(c);
             return DeformableStage.Objective(metric, work, b.BendingWeightMm2, g);
         }
-        double startValue = Objective(t.CoefficientArray, new double[c.Length]);
+        double startValue = Objective(t.CoefficientArray, default);
         var settings = new OptimizerSettings(level.MaxIterations, level.MaxStepMm, level.MinStepMm, DeadlineUtc: deadline);
         Action<int, double>? onIteration = progress is null ? null : (it, v) => progress.Report(new(li, b.Levels.Count, it, v));
         var outcome = LbfgsOptimizer.Minimize(Objective, t.CoefficientArray, settings, onIteration);
