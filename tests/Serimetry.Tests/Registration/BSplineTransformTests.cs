@@ -3,6 +3,7 @@ using Serimetry.Engine.Registration;
 using Serimetry.Engine.Registration.Deformable;
 using Serimetry.Engine.Registration.Interpolation;
 using Serimetry.Engine.Registration.Metrics;
+using Serimetry.Engine.Registration.Optimizers;
 using Serimetry.Engine.Registration.Transforms;
 using Serimetry.Tests.Shared;
 using Xunit;
@@ -170,6 +171,18 @@ public class BSplineTransformTests
         Assert.Throws<InvalidParameterException>(() => BSplineDeformation.Covering(grid, -1, AffineTransform.Identity));
         Assert.Throws<InvalidParameterException>(() => new BSplineDeformation(AffineTransform.Identity, Vec3.Zero, new Vec3(10, 10, 10),
             new Size3(4, 4, 4), Mat3.Identity, new double[5]));
+    }
+
+    [Fact]
+    public void TimeLimitStopsTheBSplineStageAndIsReported()
+    {
+        var grid = RegistrationPhantom.T2Grid(32, 32, 8, 2, 3);
+        var f = RegistrationPhantom.Render(grid, AffineTransform.Identity, PhantomContrast.T2w, 0.01, 3);
+        var m = RegistrationPhantom.Render(grid, new AffineTransform(Mat3.Identity, new Vec3(0.5, 0, 0)), PhantomContrast.T2w, 0.01, 4);
+        var r = Registrar.Register(f, m, RegistrationOptions.ForPreset("deformable") with { TimeLimit = TimeSpan.FromTicks(1) });
+        Assert.NotNull(r.Deformation);
+        Assert.All(r.DeformationLevels, l => Assert.Equal(StopReason.TimeLimit, l.StopReason));
+        Assert.Contains(r.Warnings, w => w.Contains("deformable", StringComparison.Ordinal));
     }
 
     [Fact]
