@@ -74,7 +74,7 @@ internal static partial class ElastixBSplineRunner
         var origin = Numbers(Field(text, "GridOrigin"));
         var direction = Numbers(Field(text, "GridDirection"));
         if (index.Any(v => v != 0)) throw new InvalidOperationException("non-zero GridIndex is not handled");
-        // elastix writes direction cosines column by column (ITK's matrix in column-major order).
+        // Assumed column by column; the test grids are axial (identity), where the order does not matter.
         var dir = new Mat3(direction[0], direction[3], direction[6], direction[1], direction[4], direction[7], direction[2], direction[5], direction[8]);
         return new BSplineDeformation(AffineTransform.Identity, new Vec3(origin[0], origin[1], origin[2]), new Vec3(spacing[0], spacing[1], spacing[2]),
             new Size3((int)size[0], (int)size[1], (int)size[2]), dir, Numbers(Field(text, "TransformParameters")));
