@@ -162,9 +162,10 @@ public static class Registrar
         }
         if (o.HistogramBins is < 8 or > 512)
             throw new InvalidParameterException($"histogram bins {o.HistogramBins} outside 8–512", "histogram bins");
-        if (o.BSpline is { } b && (!(b.GridSpacingMm > 0) || !(b.BendingWeightMm2 >= 0) || b.Levels.Count == 0))
+        if (o.BSpline is { } b && (!(b.GridSpacingMm > 0) || !(b.BendingWeightMm2 >= 0) || b.Levels.Count == 0
+            || !(b.FoldingPenaltyWeight >= 0) || !double.IsFinite(b.MinJacobian)))
             throw new InvalidParameterException("invalid B-spline stage settings", "bspline",
-                "positive grid spacing, non-negative bending weight, at least one level");
+                "positive grid spacing, non-negative bending and folding weights, a finite minimum Jacobian, at least one level");
         if (o.TimeLimit <= TimeSpan.Zero) throw new InvalidParameterException("the time limit must be positive", "time limit");
     }
 }

@@ -41,12 +41,15 @@ internal static class DeformableStage
         return (t, reports);
     }
 
-    /// <summary>metric + weight · bending energy and its gradient at <paramref name="t"/>.</summary>
-    internal static double Objective(BSplineMeanSquares metric, BSplineDeformation t, double weight, Span<double> gradient)
+    /// <summary>metric + weight · bending energy (+ the folding guard) and its gradient at <paramref name="t"/>.</summary>
+    internal static double Objective(BSplineMeanSquares metric, BSplineDeformation t, double weight, Span<double> gradient,
+        double foldWeight = 0, double foldThreshold = 0)
     {
         double v = metric.Evaluate(t, gradient);
-        if (!double.IsFinite(v) || weight <= 0) return v;
-        return v + weight * BendingEnergy.Evaluate(t, weight, gradient);
+        if (!double.IsFinite(v)) return v;
+        if (weight > 0) v += weight * BendingEnergy.Evaluate(t, weight, gradient);
+        if (foldWeight > 0) v += foldWeight * JacobianPenalty.Evaluate(t, foldThreshold, foldWeight, gradient);
+        return v;
     }
 
     private static (BSplineDeformation, LevelReport) RunLevel(int li, RegistrationLevel level, BSplineMeanSquares metric,
@@ -59,7 +62,7 @@ internal static class DeformableStage
         double Objective(ReadOnlySpan<double> q, Span<double> g)
         {
             q.CopyTo(c);
-            return DeformableStage.Objective(metric, work, b.BendingWeightMm2, g);
+            return DeformableStage.Objective(metric, work, b.BendingWeightMm2, g, b.FoldingPenaltyWeight, b.MinJacobian);
         }
         double startValue = Objective(t.CoefficientArray, default);
         var settings = new OptimizerSettings(level.MaxIterations, level.MaxStepMm, level.MinStepMm, DeadlineUtc: deadline);

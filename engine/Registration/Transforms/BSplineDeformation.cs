@@ -200,6 +200,41 @@ public sealed class BSplineDeformation : ISpatialTransform
         return any;
     }
 
+    /// <summary>Position (LPS mm) of control point (i, j, k).</summary>
+    public Vec3 ControlPointPosition(int i, int j, int k) =>
+        GridOriginMm + GridDirection * new Vec3(i * GridSpacingMm.X, j * GridSpacingMm.Y, k * GridSpacingMm.Z);
+
+    /// <summary>The 64 supporting control points of a point and the physical gradients (per mm) of their basis functions.</summary>
+    internal void SupportGradients(Vec3 fixedPointMm, Span<int> indices, Span<double> gx, Span<double> gy, Span<double> gz)
+    {
+        var ci = _toIndex * (fixedPointMm - GridOriginMm);
+        int bx = (int)Math.Floor(ci.X) - 1, by = (int)Math.Floor(ci.Y) - 1, bz = (int)Math.Floor(ci.Z) - 1;
+        Span<double> wx = stackalloc double[4], wy = stackalloc double[4], wz = stackalloc double[4];
+        Span<double> dx = stackalloc double[4], dy = stackalloc double[4], dz = stackalloc double[4];
+        Weights(ci.X - bx - 1, wx, dx);
+        Weights(ci.Y - by - 1, wy, dy);
+        Weights(ci.Z - bz - 1, wz, dz);
+        int nx = GridSize.X, ny = GridSize.Y, nz = GridSize.Z, m = 0;
+        var t = _toIndex;
+        for (int c = 0; c < 4; c++)
+            for (int b = 0; b < 4; b++)
+                for (int a = 0; a < 4; a++, m++)
+                {
+                    int i = bx + a, j = by + b, k = bz + c;
+                    if ((uint)i >= (uint)nx || (uint)j >= (uint)ny || (uint)k >= (uint)nz)
+                    {
+                        indices[m] = -1; gx[m] = gy[m] = gz[m] = 0;
+                        continue;
+                    }
+                    indices[m] = i + nx * (j + ny * k);
+                    double da = dx[a] * wy[b] * wz[c], db = wx[a] * dy[b] * wz[c], dc = wx[a] * wy[b] * dz[c];
+                    // ∂β/∂x_j = Σ_a ∂β/∂ξ_a · ∂ξ_a/∂x_j
+                    gx[m] = da * t.M00 + db * t.M10 + dc * t.M20;
+                    gy[m] = da * t.M01 + db * t.M11 + dc * t.M21;
+                    gz[m] = da * t.M02 + db * t.M12 + dc * t.M22;
+                }
+    }
+
     /// <summary>Σ w_m c_m over a support.</summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     internal Vec3 Sum(ReadOnlySpan<int> indices, ReadOnlySpan<double> weights)

@@ -105,6 +105,34 @@ public class BSplineTransformTests
     }
 
     [Fact]
+    public void FoldingGuardGradientMatchesFiniteDifferencesAndVanishesAboveThreshold()
+    {
+        // Src: common practice (central differences); Jacobi's formula ∂det J/∂J = cof J.
+        var rng = new Random(8);
+        var t0 = BSplineDeformation.Covering(Domain, 10, AffineTransform.Identity);
+        var c = new double[t0.Coefficients.Count];
+        for (int i = 0; i < c.Length; i++) c[i] = 3 * (rng.NextDouble() * 2 - 1);
+        var t = t0.With(coefficients: c);
+        const double threshold = 1.0;
+        var grad = new double[c.Length];
+        double value = JacobianPenalty.Evaluate(t, threshold, 1, grad);
+        Assert.True(value > 0);
+        double maxAbs = grad.Max(Math.Abs);
+        for (int q = 5; q < c.Length; q += 53)
+        {
+            const double h = 1e-6;
+            var plus = (double[])c.Clone(); plus[q] += h;
+            var minus = (double[])c.Clone(); minus[q] -= h;
+            double fd = (JacobianPenalty.Evaluate(t.With(coefficients: plus), threshold, 1, default)
+                - JacobianPenalty.Evaluate(t.With(coefficients: minus), threshold, 1, default)) / (2 * h);
+            Assert.True(Math.Abs(fd - grad[q]) <= 1e-4 * maxAbs + 1e-10, $"coefficient {q}: analytic {grad[q]:G6} vs FD {fd:G6}");
+        }
+        // A 10 % uniform compression (det 0.9 everywhere) is above a 0.5 threshold: no penalty.
+        var compressed = FromField(x => new Vec3(0, -0.1 * x.Y, 0));
+        Assert.Equal(0, JacobianPenalty.Evaluate(compressed, 0.5, 1, default));
+    }
+
+    [Fact]
     public void BendingEnergyIsZeroForAffineFieldsAndPositiveOtherwise()
     {
         // Src: thin-plate bending energy vanishes exactly on affine fields (Rueckert et al., IEEE TMI 1999).
