@@ -1,5 +1,6 @@
 using System.Diagnostics;
 using Serimetry.Engine.Core;
+using Serimetry.Engine.Registration.Deformable;
 using Serimetry.Engine.Registration.Interpolation;
 using Serimetry.Engine.Registration.Metrics;
 using Serimetry.Engine.Registration.Optimizers;
@@ -60,7 +61,17 @@ public static class Registrar
                 warnings.Add($"level {li}: too few samples overlap the moving image; the level was skipped");
             reports.Add(report);
         }
-        return Summarise(transform, metric!, reports, options, warnings, center, clock.Elapsed.TotalSeconds);
+        var result = Summarise(transform, metric!, reports, options, warnings, center, clock.Elapsed.TotalSeconds);
+        if (options.BSpline is not { } bspline) return result;
+        var (deformation, deformReports) = DeformableStage.Run(f, mask, m, result.Transform, bspline, options, deadline, warnings, progress);
+        return result with
+        {
+            Deformation = deformation,
+            DeformationLevels = deformReports,
+            TransformType = "bspline",
+            Warnings = warnings.ToArray(),
+            ElapsedSeconds = clock.Elapsed.TotalSeconds,
+        };
     }
 
     private static LevelReport RunLevel(int li, RegistrationLevel level, ResolutionLevel images, ImageMetric metric,
@@ -151,6 +162,10 @@ public static class Registrar
         }
         if (o.HistogramBins is < 8 or > 512)
             throw new InvalidParameterException($"histogram bins {o.HistogramBins} outside 8–512", "histogram bins");
+        if (o.BSpline is { } b && (!(b.GridSpacingMm > 0) || !(b.BendingWeightMm2 >= 0) || b.Levels.Count == 0
+            || !(b.FoldingPenaltyWeight >= 0) || !double.IsFinite(b.MinJacobian)))
+            throw new InvalidParameterException("invalid B-spline stage settings", "bspline",
+                "positive grid spacing, non-negative bending and folding weights, a finite minimum Jacobian, at least one level");
         if (o.TimeLimit <= TimeSpan.Zero) throw new InvalidParameterException("the time limit must be positive", "time limit");
     }
 }

@@ -86,6 +86,9 @@ public sealed record RegistrationOptions
     /// </summary>
     public double? MaxCenterDisplacementMm { get; init; }
 
+    /// <summary>When set, a cubic B-spline stage follows the bulk transform (the <c>deformable</c> preset).</summary>
+    public BSplineStageOptions? BSpline { get; init; }
+
     /// <summary>Warn when the rotation exceeds this angle (degrees).</summary>
     public double WarnRotationDeg { get; init; } = 20;
 
@@ -93,7 +96,7 @@ public sealed record RegistrationOptions
     public double WarnShiftMm { get; init; } = 30;
 
     /// <summary>Names accepted by <see cref="ForPreset"/>.</summary>
-    public static IReadOnlyList<string> PresetNames { get; } = ["rigid", "affine", "within-exam"];
+    public static IReadOnlyList<string> PresetNames { get; } = ["rigid", "affine", "deformable", "within-exam"];
 
     private static readonly RegistrationLevel[] DefaultLevels =
     [
@@ -112,6 +115,12 @@ public sealed record RegistrationOptions
 
     /// <summary>Rigid plus scaling and shear, same schedule.</summary>
     public static RegistrationOptions Affine() => new() { Preset = "affine", Transform = TransformKind.Affine, CorrectBias = true };
+
+    /// <summary>
+    /// Gland-shape change between visits: the rigid preset, then a cubic B-spline stage (12 mm control
+    /// points, gain-matched mean squares, bending weight 50 mm², L-BFGS, two levels). Same-contrast series only.
+    /// </summary>
+    public static RegistrationOptions Deformable() => Rigid() with { Preset = "deformable", BSpline = new BSplineStageOptions() };
 
     /// <summary>
     /// ADC/DWI → T2w of the same exam: rigid, Mattes MI (robust to EPI contrast), identity start (same
@@ -134,6 +143,7 @@ public sealed record RegistrationOptions
     {
         "rigid" => Rigid(),
         "affine" => Affine(),
+        "deformable" => Deformable(),
         "within-exam" => WithinExam(),
         _ => throw new InvalidParameterException($"unknown registration preset '{name}'", "preset",
             $"use one of: {string.Join(", ", PresetNames)}"),

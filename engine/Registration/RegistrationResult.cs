@@ -1,4 +1,5 @@
 using Serimetry.Engine.Core;
+using Serimetry.Engine.Registration.Transforms;
 using Serimetry.Engine.Registration.Optimizers;
 
 namespace Serimetry.Engine.Registration;
@@ -32,6 +33,20 @@ public sealed record RegistrationResult(
     double ShiftMm,
     double ElapsedSeconds)
 {
+    /// <summary>
+    /// The B-spline free-form part of a <c>deformable</c> registration (null otherwise): the whole map is
+    /// <see cref="BSplineDeformation.TransformPoint"/>, whose <see cref="BSplineDeformation.Bulk"/> equals
+    /// <see cref="Transform"/>. <see cref="Transform"/> alone stays the affine (rigid) part for callers that
+    /// only handle 4x4 maps.
+    /// </summary>
+    public BSplineDeformation? Deformation { get; init; }
+
+    /// <summary>Levels of the B-spline stage (empty without one); <see cref="Levels"/> are the bulk stage's.</summary>
+    public IReadOnlyList<LevelReport> DeformationLevels { get; init; } = [];
+
+    /// <summary>The full map: the deformation when there is one, else the affine transform.</summary>
+    public ISpatialTransform FullTransform => (ISpatialTransform?)Deformation ?? Transform;
+
     /// <summary>Iterations per level, coarse to fine.</summary>
     public IReadOnlyList<int> IterationsPerLevel => Levels.Select(l => l.Iterations).ToArray();
 }

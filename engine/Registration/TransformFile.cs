@@ -1,17 +1,23 @@
 using System.Text.Json;
 using System.Text.Json.Nodes;
 using Serimetry.Engine.Core;
+using Serimetry.Engine.Registration.Transforms;
 
 namespace Serimetry.Engine.Registration;
 
 /// <summary>A transform read back from transform.json, with the quality figures stored beside it.</summary>
 public sealed record StoredTransform(string Type, AffineTransform Transform, double? MetricBefore, double? MetricAfter,
-    string? StopReason, IReadOnlyList<string> Warnings);
+    string? StopReason, IReadOnlyList<string> Warnings)
+{
+    /// <summary>The B-spline part of a <c>"bspline"</c> transform (its bulk equals <see cref="Transform"/>), else null.</summary>
+    public BSplineDeformation? Deformation { get; init; }
+}
 
 /// <summary>
 /// transform.json: <c>{"type": "translation|rigid|affine", "matrix": [16 numbers, 4x4 row-major, fixed LPS mm →
-/// moving LPS mm], "quality": {...}, "settings": {...}, "software": {...}}</c>. The matrix is the whole contract;
-/// the rest documents how it was obtained.
+/// moving LPS mm], "quality": {...}, "settings": {...}, "software": {...}}</c>. The matrix is the whole contract
+/// for the affine types; the rest documents how it was obtained. Type <c>"bspline"</c> adds a <c>bspline</c> block
+/// (see <see cref="BSplineJson"/>): the map is matrix·x + u(x), u the cubic B-spline displacement.
 /// </summary>
 public static class TransformFile
 {
@@ -59,6 +65,11 @@ public static class TransformFile
             },
             ["software"] = new JsonObject { ["name"] = SoftwareInfo.Name, ["version"] = SoftwareInfo.Version },
         };
+        if (r.Deformation is { } d)
+        {
+            root["bspline"] = BSplineJson.ToJson(d);
+            root["quality"]!["deformationLevels"] = new JsonArray(r.DeformationLevels.Select(Level).ToArray());
+        }
         return root.ToJsonString(Indented);
     }
 
@@ -81,8 +92,10 @@ public static class TransformFile
             var matrix = m.Select(n => n?.GetValue<double>() ?? double.NaN).ToArray();
             var q = root["quality"];
             var warnings = q?["warnings"]?.AsArray().Select(n => n?.GetValue<string>() ?? "").ToArray() ?? [];
-            return new StoredTransform(type, AffineTransform.FromMatrix4x4(matrix), q?["metricBefore"]?.GetValue<double>(),
-                q?["metricAfter"]?.GetValue<double>(), q?["stopReason"]?.GetValue<string>(), warnings);
+            var affine = AffineTransform.FromMatrix4x4(matrix);
+            var bspline = type == "bspline" ? BSplineJson.Read(root["bspline"] ?? throw Missing(path, "bspline"), affine, Path.GetFileName(path)) : null;
+            return new StoredTransform(type, affine, q?["metricBefore"]?.GetValue<double>(),
+                q?["metricAfter"]?.GetValue<double>(), q?["stopReason"]?.GetValue<string>(), warnings) { Deformation = bspline };
         }
         catch (Exception e) when (e is InvalidOperationException or FormatException)
         {
@@ -93,7 +106,7 @@ public static class TransformFile
     private static InputFormatException Missing(string path, string field) =>
         new($"the field '{field}' is missing", Path.GetFileName(path), "supply a transform.json written by Serimetry");
 
-    private static JsonArray Numbers(double[] v) => new(v.Select(x => (JsonNode?)x).ToArray());
+    internal static JsonArray Numbers(double[] v) => new(v.Select(x => (JsonNode?)x).ToArray());
 
     private static JsonNode? Finite(double v) => double.IsFinite(v) ? v : null;
 

@@ -1,0 +1,86 @@
+using System.Diagnostics;
+using System.Globalization;
+using Serimetry.Engine.Core;
+using Serimetry.Engine.Registration.Interpolation;
+using Serimetry.Engine.Registration.Metrics;
+using Serimetry.Engine.Registration.Optimizers;
+using Serimetry.Engine.Registration.Pyramid;
+using Serimetry.Engine.Registration.Transforms;
+
+namespace Serimetry.Engine.Registration.Deformable;
+
+/// <summary>
+/// The B-spline stage: starts from the bulk affine result with zero displacement and minimises
+/// normalised mean squares + bending energy with L-BFGS over the coefficients, level by level on the
+/// registration pyramid, the control grid covering the (cropped) fixed domain.
+/// </summary>
+internal static class DeformableStage
+{
+    public static (BSplineDeformation Deformation, List<LevelReport> Reports) Run(Volume<float> f, Volume<byte>? mask,
+        Volume<float> m, AffineTransform bulk, BSplineStageOptions b, RegistrationOptions o, DateTime deadline,
+        List<string> warnings, IProgress<RegistrationProgress>? progress)
+    {
+        var t = BSplineDeformation.Covering(f.Geometry, b.GridSpacingMm, bulk);
+        double finest = Math.Min(f.Geometry.SpacingMm.X, Math.Min(f.Geometry.SpacingMm.Y, f.Geometry.SpacingMm.Z));
+        var reports = new List<LevelReport>();
+        for (int li = 0; li < b.Levels.Count; li++)
+        {
+            var level = b.Levels[li];
+            var images = ResolutionLevel.Build(f, mask, m, level.ShrinkFactor, level.SmoothingSigmaMm, finest, o.MaxThreads);
+            int seed = level.Seed ?? o.Seed + 100 + li;
+            var set = SampleSet.Draw(images.Fixed, images.Mask, level.Samples, seed);
+            var metric = new BSplineMeanSquares(set, new LinearInterpolator(images.Moving), o.MaxThreads, t);
+            (t, var report) = RunLevel(li, level, metric, t, b, deadline, progress, seed, images);
+            if (report.StopReason == StopReason.MetricNotFinite)
+                warnings.Add($"deformable level {li}: too few samples overlap the moving image; the level was skipped");
+            reports.Add(report);
+        }
+        CheckFolding(t, f.Geometry, o.MaxThreads, warnings);
+        if (reports.Exists(r => r.StopReason == StopReason.TimeLimit))
+            warnings.Add("the time limit was reached before the deformable optimisation finished");
+        return (t, reports);
+    }
+
+    /// <summary>metric + weight · bending energy (+ the folding guard) and its gradient at <paramref name="t"/>.</summary>
+    internal static double Objective(BSplineMeanSquares metric, BSplineDeformation t, double weight, Span<double> gradient,
+        double foldWeight = 0, double foldThreshold = 0)
+    {
+        double v = metric.Evaluate(t, gradient);
+        if (!double.IsFinite(v)) return v;
+        if (weight > 0) v += weight * BendingEnergy.Evaluate(t, weight, gradient);
+        if (foldWeight > 0) v += foldWeight * JacobianPenalty.Evaluate(t, foldThreshold, foldWeight, gradient);
+        return v;
+    }
+
+    private static (BSplineDeformation, LevelReport) RunLevel(int li, RegistrationLevel level, BSplineMeanSquares metric,
+        BSplineDeformation t, BSplineStageOptions b, DateTime deadline, IProgress<RegistrationProgress>? progress, int seed,
+        ResolutionLevel images)
+    {
+        var clock = Stopwatch.StartNew();
+        var work = t.With();
+        var c = work.CoefficientArray;
+        double Objective(ReadOnlySpan<double> q, Span<double> g)
+        {
+            q.CopyTo(c);
+            return DeformableStage.Objective(metric, work, b.BendingWeightMm2, g, b.FoldingPenaltyWeight, b.MinJacobian);
+        }
+        double startValue = Objective(t.CoefficientArray, default);
+        var settings = new OptimizerSettings(level.MaxIterations, level.MaxStepMm, level.MinStepMm, DeadlineUtc: deadline);
+        Action<int, double>? onIteration = progress is null ? null : (it, v) => progress.Report(new(li, b.Levels.Count, it, v));
+        var outcome = LbfgsOptimizer.Minimize(Objective, t.CoefficientArray, settings, onIteration);
+        var result = t.With(coefficients: outcome.Parameters);
+        var report = new LevelReport(li, images.FixedShrink, images.MovingShrink, images.FixedSigmaMm, metric.SampleCount, seed,
+            outcome.Iterations, outcome.StopReason, startValue, outcome.Value, clock.Elapsed.TotalSeconds);
+        return (result, report);
+    }
+
+    private static void CheckFolding(BSplineDeformation t, Geometry grid, int maxThreads, List<string> warnings)
+    {
+        var det = t.JacobianDeterminantField(grid, maxThreads).Voxels;
+        float min = float.PositiveInfinity;
+        foreach (var v in det) if (v < min) min = v;
+        if (min <= 0)
+            warnings.Add(string.Create(CultureInfo.InvariantCulture,
+                $"the deformation folds (minimum Jacobian determinant {min:G3}); increase the bending weight or the control point spacing"));
+    }
+}
