@@ -16,7 +16,7 @@ internal sealed class RegisterVerb : IVerb
             new("fixed", "IMG", "fixed (baseline) image: NIfTI, or DICOM file/folder/zip", Required: true),
             new("moving", "IMG", "moving (follow-up, or ADC) image", Required: true),
             new("out", "FILE", "transform.json to write", Required: true),
-            new("preset", "NAME", "rigid (default), affine or within-exam"),
+            new("preset", "NAME", "rigid (default), affine, within-exam or deformable (rigid then cubic B-spline)"),
             new("fixed-mask", "MASK", "NIfTI mask on the fixed grid to focus on (e.g. the gland; dilated by the preset)"),
             new("mask", "MASK", "same as --fixed-mask"),
             new("resampled", "FILE", "also write the moving image resampled onto the fixed grid (NIfTI)"),
@@ -33,7 +33,7 @@ internal sealed class RegisterVerb : IVerb
         var result = Registrar.Register(fixedImage, moving, options, mask);
         TransformFile.Write(args.Required("out"), result);
         if (args.Get("resampled") is string resampled)
-            NiftiFile.Write(resampled, Resampler.Resample(moving, fixedImage.Geometry, result.Transform, Interpolation.Linear));
+            NiftiFile.Write(resampled, Resampler.Resample(moving, fixedImage.Geometry, result.FullTransform, Interpolation.Linear));
         ctx.Out.WriteLine(string.Create(CultureInfo.InvariantCulture,
             $"{result.TransformType}: rotation {result.RotationDeg:0.00} deg, shift {result.ShiftMm:0.00} mm, {result.MetricName} {result.MetricBefore:0.####} -> {result.MetricAfter:0.####}, stop: {result.StopReason}"));
         foreach (var w in result.Warnings) ctx.Out.WriteLine($"warning: {w}");
