@@ -23,6 +23,7 @@ public static class CompareOutputs
         WriteAtomically(Path.Combine(outDir, "report.html"), HtmlReport.Render(result.Report, pictures, adc));
         TidyCsv.WriteAll(result.Report, outDir);
         if (result.Radiomics.Count > 0) written.AddRange(VisitRadiomics.Write(result.Radiomics, outDir));
+        written.AddRange(Reports.Dicom.VisitSegOutputs.Write(result.Visits, result.ExamPaths, outDir));
         // change.json last: its presence means every other file is complete.
         WriteAtomically(Path.Combine(outDir, "change.json"), ChangeReportJson.Serialize(result.Report) + "\n");
         written.AddRange(["report.html", "measures.csv", "changes.csv", "change.json"]);
