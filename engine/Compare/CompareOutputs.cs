@@ -23,7 +23,9 @@ public static class CompareOutputs
         WriteAtomically(Path.Combine(outDir, "report.html"), HtmlReport.Render(result.Report, pictures, adc));
         TidyCsv.WriteAll(result.Report, outDir);
         if (result.Radiomics.Count > 0) written.AddRange(VisitRadiomics.Write(result.Radiomics, outDir));
-        written.AddRange(Reports.Dicom.VisitSegOutputs.Write(result.Visits, result.ExamPaths, outDir));
+        var segs = Reports.Dicom.VisitSegOutputs.WriteWithIds(result.Visits, result.ExamPaths, outDir);
+        written.AddRange(segs.Select(s => $"seg-{s.VisitIndex}.dcm"));
+        if (result.Visits.Count > 0) written.Add(Reports.Dicom.VisitSegOutputs.WriteSr(result.Report, result.Visits, segs, outDir));
         // change.json last: its presence means every other file is complete.
         WriteAtomically(Path.Combine(outDir, "change.json"), ChangeReportJson.Serialize(result.Report) + "\n");
         written.AddRange(["report.html", "measures.csv", "changes.csv", "change.json"]);

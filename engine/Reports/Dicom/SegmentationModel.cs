@@ -40,3 +40,15 @@ public sealed record SegSourceReference(string SeriesInstanceUid, string SopClas
 
 /// <summary>Patient and study attributes the SEG repeats from its source (PS3.3 C.7.1.1, C.7.2.1).</summary>
 public sealed record DicomStudyInfo(string? PatientId, string? PatientName, string? StudyInstanceUid, DateOnly? StudyDate);
+
+/// <summary>The identifiers of a written object (for the SR's evidence and references).</summary>
+public sealed record DicomObjectIds(string StudyInstanceUid, string SeriesInstanceUid, string SopClassUid, string SopInstanceUid)
+{
+    internal static DicomObjectIds Of(Io.Dicom.Writing.DicomWriteDataset ds)
+    {
+        string Get(Io.Dicom.DicomTag t) =>
+            System.Text.Encoding.ASCII.GetString(ds.Elements.First(e => e.Tag == t).Value).TrimEnd('\0', ' ');
+        return new(Get(Io.Dicom.DicomTags.StudyInstanceUID), Get(Io.Dicom.DicomTags.SeriesInstanceUID),
+            Get(Io.Dicom.DicomTags.SOPClassUID), Get(Io.Dicom.DicomTags.SOPInstanceUID));
+    }
+}

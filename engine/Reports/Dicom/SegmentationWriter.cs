@@ -17,14 +17,13 @@ public static class SegmentationWriter
     /// <summary>Segmentation Storage SOP Class UID (PS3.4 B.5).</summary>
     public const string SegmentationStorage = "1.2.840.10008.5.1.4.1.1.66.4";
 
-    /// <summary>Writes the SEG file and returns its SOP Instance UID.</summary>
-    public static string Write(string path, Geometry grid, IReadOnlyList<SegmentDefinition> segments, DicomStudyInfo study,
+    /// <summary>Writes the SEG file and returns its identifiers (for references from an SR).</summary>
+    public static DicomObjectIds Write(string path, Geometry grid, IReadOnlyList<SegmentDefinition> segments, DicomStudyInfo study,
         SegSourceReference? source, string uidRoot = DicomUids.UuidRoot, int seriesNumber = 900)
     {
         var ds = Build(grid, segments, study, source, uidRoot, seriesNumber);
         DicomPart10Writer.Write(path, ds);
-        return ds.Elements.First(e => e.Tag == DicomTags.SOPInstanceUID).Value is var v
-            ? System.Text.Encoding.ASCII.GetString(v).TrimEnd('\0') : "";
+        return DicomObjectIds.Of(ds);
     }
 
     /// <summary>The SEG data set.</summary>

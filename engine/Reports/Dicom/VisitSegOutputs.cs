@@ -12,9 +12,13 @@ namespace Serimetry.Engine.Reports.Dicom;
 internal static class VisitSegOutputs
 {
     public static IReadOnlyList<string> Write(IReadOnlyList<VisitImages> visits, IReadOnlyList<string> examPaths, string outDir,
-        string uidRoot = DicomUids.UuidRoot)
+        string uidRoot = DicomUids.UuidRoot) => WriteWithIds(visits, examPaths, outDir, uidRoot).Select(s => $"seg-{s.VisitIndex}.dcm").ToList();
+
+    /// <summary>Writes the SEGs and returns what an SR needs to reference them.</summary>
+    public static IReadOnlyList<VisitSegReference> WriteWithIds(IReadOnlyList<VisitImages> visits, IReadOnlyList<string> examPaths,
+        string outDir, string uidRoot = DicomUids.UuidRoot)
     {
-        var written = new List<string>();
+        var written = new List<VisitSegReference>();
         var references = Resolve(visits, examPaths);
         foreach (var v in visits)
         {
@@ -24,10 +28,23 @@ internal static class VisitSegOutputs
             references.TryGetValue(v.Index, out var reference);
             var study = new DicomStudyInfo(v.Exam.PatientId, null, v.Exam.StudyInstanceUid, v.Exam.Date);
             var file = $"seg-{v.Index}.dcm";
-            SegmentationWriter.Write(Path.Combine(outDir, file), grid, segments, study, reference, uidRoot);
-            written.Add(file);
+            var ids = SegmentationWriter.Write(Path.Combine(outDir, file), grid, segments, study, reference, uidRoot);
+            written.Add(new VisitSegReference(v.Index, ids, segments.Select((s, i) => (s.Label, Number: i + 1)).ToDictionary(x => x.Label, x => x.Number)));
         }
         return written;
+    }
+
+    /// <summary>
+    /// Writes <c>sr.dcm</c> (TID 1500) referencing the SEGs; it joins the latest visit's study when that
+    /// exam is DICOM. Returns the file name.
+    /// </summary>
+    public static string WriteSr(Reports.ChangeReport report, IReadOnlyList<VisitImages> visits, IReadOnlyList<VisitSegReference> segs,
+        string outDir, string uidRoot = DicomUids.UuidRoot)
+    {
+        var last = visits[^1].Exam;
+        MeasurementReportWriter.Write(Path.Combine(outDir, "sr.dcm"), report,
+            new DicomStudyInfo(last.PatientId, null, last.StudyInstanceUid, last.Date), segs, uidRoot);
+        return "sr.dcm";
     }
 
     internal static List<SegmentDefinition> Segments(VisitImages v)
