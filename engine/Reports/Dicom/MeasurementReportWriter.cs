@@ -48,6 +48,11 @@ public static class MeasurementReportWriter
         ds.Add(DicomTags.SOPClassUID, DicomVR.UI, ComprehensiveSr)
           .Add(DicomTags.SOPInstanceUID, DicomVR.UI, DicomUids.New(uidRoot))
           .Add(DicomTags.InstanceNumber, DicomVR.IS, 1)
+          // PS3.3 C.12.1.1.2.1: a local coding scheme is identified in the Coding Scheme Identification Sequence.
+          .AddSequence(DicomTags.CodingSchemeIdentificationSequence, new DicomWriteDataset()
+              .Add(DicomTags.CodingSchemeDesignator, DicomVR.SH, SrCodes.Scheme)
+              .Add(DicomTags.CodingSchemeName, DicomVR.ST, "Serimetry measures (ids of change.json, docs/dicom-out.md)")
+              .Add(DicomTags.CodingSchemeResponsibleOrganization, DicomVR.ST, SoftwareInfo.Name))
           .Add(DicomTags.CompletionFlag, DicomVR.CS, "COMPLETE")
           .Add(DicomTags.VerificationFlag, DicomVR.CS, "UNVERIFIED")
           .AddSequence(DicomTags.ReferencedPerformedProcedureStepSequence)

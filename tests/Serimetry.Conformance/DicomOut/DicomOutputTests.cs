@@ -96,4 +96,42 @@ public sealed class DicomOutputTests(DicomPhantomFixture fx, ITestOutputHelper o
             Assert.Equal(t2File.GetString(DicomTags.FrameOfReferenceUID), ds.GetString(DicomTags.FrameOfReferenceUID));
         }
     }
+
+    [Fact]
+    public void Compare_writes_a_tid1500_sr_that_dciodvfy_accepts_and_dsrdump_renders()
+    {
+        Assert.Contains("sr.dcm", fx.Written);
+        var path = Path.Combine(fx.OutDir, "sr.dcm");
+        var (errors, warnings) = Dciodvfy.Check(path);
+        foreach (var w in warnings.Distinct()) output.WriteLine($"dciodvfy sr: {w}");
+        Assert.True(errors.Count == 0, string.Join('\n', errors));
+        var tree = ReferenceTool.Capture("dsrdump", path);
+        Assert.Contains("Imaging Measurement Report", tree, StringComparison.Ordinal);
+        Assert.Contains("Referenced Segment", tree, StringComparison.Ordinal);
+
+        // The lesion volume of each visit in the SR equals change.json's value (Src: our own report; 10 significant digits).
+        var root = DicomFile.Read(path).Dataset;
+        Assert.Equal("1500", root.GetSequence(DicomTags.ContentTemplateSequence).Single().GetString(DicomTags.TemplateIdentifier));
+        var groups = root.GetSequence(DicomTags.ContentSequence)
+            .Single(i => Meaning(i) == "Imaging Measurements").GetSequence(DicomTags.ContentSequence);
+        Assert.Equal(2 * fx.Result.Visits.Count, groups.Count);
+        foreach (var v in fx.Result.Report.Visits)
+        {
+            var lesion = groups.Single(g => g.GetSequence(DicomTags.ContentSequence)
+                .Any(i => Meaning(i) == "Tracking Identifier" && i.GetString(DicomTags.TextValue) == $"Lesion visit {v.Index}"));
+            var volume = lesion.GetSequence(DicomTags.ContentSequence).Single(i => Meaning(i) == "Volume");
+            var measured = volume.GetSequence(DicomTags.MeasuredValueSequence).Single();
+            Assert.Equal(v.Values["lesion.volume"].Value!.Value, measured.GetDouble(DicomTags.NumericValue), 1e-8);
+            Assert.Equal("ml", measured.GetSequence(DicomTags.MeasurementUnitsCodeSequence).Single().GetString(DicomTags.CodeValue));
+            // The segment reference points at this visit's SEG.
+            var segRef = lesion.GetSequence(DicomTags.ContentSequence).Single(i => Meaning(i) == "Referenced Segment")
+                .GetSequence(DicomTags.ReferencedSOPSequence).Single();
+            var seg = DicomFile.ReadHeader(Path.Combine(fx.OutDir, $"seg-{v.Index}.dcm")).Dataset;
+            Assert.Equal(seg.GetString(DicomTags.SOPInstanceUID), segRef.GetString(DicomTags.ReferencedSOPInstanceUID));
+            Assert.Equal(2, segRef.GetInt(DicomTags.ReferencedSegmentNumber));
+        }
+    }
+
+    private static string Meaning(DicomDataset item) =>
+        item.GetSequence(DicomTags.ConceptNameCodeSequence).FirstOrDefault()?.GetStringOrNull(DicomTags.CodeMeaning) ?? "";
 }
