@@ -4,6 +4,7 @@ using Serimetry.Engine.Io;
 using Serimetry.Engine.Io.Dicom;
 using Serimetry.Engine.Io.Dicom.Writing;
 using Serimetry.Engine.Io.Nifti;
+using Serimetry.Engine.Reports.Dicom;
 
 namespace Serimetry.Engine.Phantoms;
 
@@ -12,7 +13,7 @@ namespace Serimetry.Engine.Phantoms;
 /// as classic MR Image Storage series (<see cref="MrSeriesWriter"/>; DWI is one series holding every b-value
 /// with Diffusion b-value (0018,9087)), one Study Instance UID and Frame of Reference per visit, Patient ID =
 /// subject id, Study Date = visit date; masks as NIfTI in <c>DIR/visit-&lt;k&gt;/masks/</c> (the DICOM loader
-/// ignores non-DICOM files), <c>truth.json</c> and <c>spec.json</c> as for NIfTI output. UIDs are derived from
+/// ignores non-DICOM files) and as a binary SEG <c>masks/seg.dcm</c> (segments Prostate, Lesion) referencing the T2w series, <c>truth.json</c> and <c>spec.json</c> as for NIfTI output. UIDs are derived from
 /// the spec's subject id and seed, so the same spec gives the same files.
 /// </summary>
 public static class PhantomDicomWriter
@@ -25,9 +26,10 @@ public static class PhantomDicomWriter
         foreach (var v in subject.Visits)
         {
             var dir = Path.Combine(directory, $"visit-{v.Index}");
-            WriteVisit(Path.Combine(dir, "dicom"), subject, v, uidRoot);
+            var t2 = WriteVisit(Path.Combine(dir, "dicom"), subject, v, uidRoot);
             var masks = Path.Combine(dir, "masks");
             Directory.CreateDirectory(masks);
+            WriteTruthSeg(Path.Combine(masks, "seg.dcm"), subject, v, t2, uidRoot);
             NiftiFile.Write(Path.Combine(masks, "gland.nii.gz"), v.GlandMask);
             NiftiFile.Write(Path.Combine(masks, "zones.nii.gz"), v.ZoneMask);
             NiftiFile.Write(Path.Combine(masks, "lesion.nii.gz"), v.LesionMask);
@@ -37,14 +39,14 @@ public static class PhantomDicomWriter
         File.WriteAllText(Path.Combine(directory, "spec.json"), subject.Spec.ToJson());
     }
 
-    /// <summary>Writes one visit's three series into <paramref name="dicomDir"/>.</summary>
-    internal static void WriteVisit(string dicomDir, PhantomSubject subject, PhantomVisit v, string uidRoot)
+    /// <summary>Writes one visit's three series into <paramref name="dicomDir"/>; returns the T2w series reference.</summary>
+    internal static SegSourceReference WriteVisit(string dicomDir, PhantomSubject subject, PhantomVisit v, string uidRoot)
     {
         string seed = $"serimetry-phantom/{subject.SubjectId}/{subject.Spec.Seed}/{subject.Spec.NoiseSeed}/visit-{v.Index}";
         var study = Study(subject, v, seed, uidRoot);
         var t2 = Series(study, seed + "/t2w", 1, "T2W TSE AX", uidRoot, "ORIGINAL", "PRIMARY", "OTHER");
         Acquisition(t2, v.T2wAcquisition, "SE", "SK", 3000, 100);
-        MrSeriesWriter.Write(Path.Combine(dicomDir, "t2w"), "t2w", v.T2w, t2, seed + "/t2w", 1, uidRoot);
+        var t2Uids = MrSeriesWriter.Write(Path.Combine(dicomDir, "t2w"), "t2w", v.T2w, t2, seed + "/t2w", 1, uidRoot);
 
         var dwi = Series(study, seed + "/dwi", 2, "DWI EPI AX", uidRoot, "ORIGINAL", "PRIMARY", "OTHER");
         Acquisition(dwi, v.DwiAcquisition, "EP", "SK\\SP", 4000, 80);
@@ -60,6 +62,19 @@ public static class PhantomDicomWriter
         var adc = Series(study, seed + "/adc", 3, "ADC (10^-6 mm2/s)", uidRoot, "DERIVED", "PRIMARY", "DIFFUSION MAP", "ADC");
         Acquisition(adc, v.DwiAcquisition, "EP", "SK\\SP", 4000, 80);
         MrSeriesWriter.Write(Path.Combine(dicomDir, "adc"), "adc", v.Adc, adc, seed + "/adc", 1, uidRoot);
+        return new SegSourceReference(DicomUids.FromName(seed + "/t2w/series", uidRoot), MrSeriesWriter.MrImageStorage, t2Uids,
+            DicomUids.FromName(seed + "/frame-of-reference", uidRoot), "PHANTOM^" + subject.SubjectId);
+    }
+
+    /// <summary>The truth masks (gland, lesion) as a binary SEG on the T2w series (docs/dicom-out.md).</summary>
+    private static void WriteTruthSeg(string path, PhantomSubject subject, PhantomVisit v, SegSourceReference t2, string uidRoot)
+    {
+        string seed = $"serimetry-phantom/{subject.SubjectId}/{subject.Spec.Seed}/{subject.Spec.NoiseSeed}/visit-{v.Index}";
+        SegmentationWriter.Write(path, v.T2w.Geometry,
+        [
+            new SegmentDefinition("Prostate", DicomCode.AnatomicalStructure, DicomCode.Prostate, "AUTOMATIC", "Serimetry phantom truth", v.GlandMask, "prostate"),
+            new SegmentDefinition("Lesion", DicomCode.MorphologicallyAlteredStructure, DicomCode.Neoplasm, "AUTOMATIC", "Serimetry phantom truth", v.LesionMask, "lesion-1"),
+        ], new DicomStudyInfo(subject.SubjectId, null, DicomUids.FromName(seed + "/study", uidRoot), v.Date), t2, uidRoot, 900, seed + "/seg");
     }
 
     private static DicomWriteDataset Study(PhantomSubject subject, PhantomVisit v, string seed, string uidRoot) =>

@@ -37,7 +37,7 @@ public static class MeasurementReportWriter
         ArgumentNullException.ThrowIfNull(segs);
         var now = DateTime.UtcNow;
         var ds = new DicomWriteDataset();
-        SegmentationHeader.AddPatientStudySeries(ds, study, null, uidRoot, 901, now, "SR");
+        SegmentationHeader.AddPatientStudySeries(ds, study, null, new SegmentationHeader.UidSource(uidRoot, null), 901, now, "SR");
         var groups = new List<DicomWriteDataset>();
         foreach (var v in report.Visits)
         {

@@ -10,7 +10,15 @@ namespace Serimetry.Engine.Reports.Dicom;
 /// </summary>
 internal static class SegmentationHeader
 {
-    public static void AddPatientStudySeries(DicomWriteDataset ds, DicomStudyInfo study, SegSourceReference? source, string uidRoot,
+    /// <summary>New UIDs: random, or derived from a seed and a purpose when the seed is given (repeatable output).</summary>
+    internal sealed class UidSource(string root, string? seed)
+    {
+        public string Root => root;
+
+        public string Next(string purpose) => seed is null ? DicomUids.New(root) : DicomUids.FromName(seed + "/" + purpose, root);
+    }
+
+    public static void AddPatientStudySeries(DicomWriteDataset ds, DicomStudyInfo study, SegSourceReference? source, UidSource uids,
         int seriesNumber, DateTime now, string modality = "SEG")
     {
         string date = now.ToString("yyyyMMdd", CultureInfo.InvariantCulture);
@@ -19,14 +27,14 @@ internal static class SegmentationHeader
           .Add(DicomTags.PatientID, DicomVR.LO, study.PatientId ?? "")
           .Add(DicomTags.PatientBirthDate, DicomVR.DA, "")
           .Add(DicomTags.PatientSex, DicomVR.CS, "")
-          .Add(DicomTags.StudyInstanceUID, DicomVR.UI, study.StudyInstanceUid ?? DicomUids.New(uidRoot))
+          .Add(DicomTags.StudyInstanceUID, DicomVR.UI, study.StudyInstanceUid ?? uids.Next("study"))
           .Add(DicomTags.StudyDate, DicomVR.DA, study.StudyDate?.ToString("yyyyMMdd", CultureInfo.InvariantCulture) ?? "")
           .Add(DicomTags.StudyTime, DicomVR.TM, "")
           .Add(DicomTags.ReferringPhysicianName, DicomVR.PN, "")
           .Add(DicomTags.StudyID, DicomVR.SH, "")
           .Add(DicomTags.AccessionNumber, DicomVR.SH, "")
           .Add(DicomTags.Modality, DicomVR.CS, modality)
-          .Add(DicomTags.SeriesInstanceUID, DicomVR.UI, DicomUids.New(uidRoot))
+          .Add(DicomTags.SeriesInstanceUID, DicomVR.UI, uids.Next("series"))
           .Add(DicomTags.SeriesNumber, DicomVR.IS, seriesNumber)
           .Add(DicomTags.SeriesDescription, DicomVR.LO, modality == "SEG" ? "Serimetry outlines" : "Serimetry measurements")
           .Add(DicomTags.SeriesDate, DicomVR.DA, date)
@@ -39,7 +47,7 @@ internal static class SegmentationHeader
           .Add(DicomTags.DeviceSerialNumber, DicomVR.LO, "0")
           .Add(DicomTags.SoftwareVersions, DicomVR.LO, SoftwareInfo.Version);
         if (modality == "SEG")
-            ds.Add(DicomTags.FrameOfReferenceUID, DicomVR.UI, source?.FrameOfReferenceUid ?? DicomUids.New(uidRoot))
+            ds.Add(DicomTags.FrameOfReferenceUID, DicomVR.UI, source?.FrameOfReferenceUid ?? uids.Next("frame-of-reference"))
               .Add(DicomTags.PositionReferenceIndicator, DicomVR.LO, "");
     }
 }

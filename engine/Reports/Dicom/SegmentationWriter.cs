@@ -19,16 +19,19 @@ public static class SegmentationWriter
 
     /// <summary>Writes the SEG file and returns its identifiers (for references from an SR).</summary>
     public static DicomObjectIds Write(string path, Geometry grid, IReadOnlyList<SegmentDefinition> segments, DicomStudyInfo study,
-        SegSourceReference? source, string uidRoot = DicomUids.UuidRoot, int seriesNumber = 900)
+        SegSourceReference? source, string uidRoot = DicomUids.UuidRoot, int seriesNumber = 900, string? uidSeed = null)
     {
-        var ds = Build(grid, segments, study, source, uidRoot, seriesNumber);
+        var ds = Build(grid, segments, study, source, uidRoot, seriesNumber, uidSeed);
         DicomPart10Writer.Write(path, ds);
         return DicomObjectIds.Of(ds);
     }
 
-    /// <summary>The SEG data set.</summary>
+    /// <summary>
+    /// The SEG data set. With <paramref name="uidSeed"/> the new UIDs are derived from it and the content date is
+    /// the study date (repeatable files, e.g. phantoms); otherwise UIDs are random and dates are now.
+    /// </summary>
     public static DicomWriteDataset Build(Geometry grid, IReadOnlyList<SegmentDefinition> segments, DicomStudyInfo study,
-        SegSourceReference? source, string uidRoot = DicomUids.UuidRoot, int seriesNumber = 900)
+        SegSourceReference? source, string uidRoot = DicomUids.UuidRoot, int seriesNumber = 900, string? uidSeed = null)
     {
         ArgumentNullException.ThrowIfNull(grid);
         ArgumentNullException.ThrowIfNull(segments);
@@ -38,12 +41,13 @@ public static class SegmentationWriter
         if (source is not null && source.SopInstanceUids.Count != grid.Size.Z)
             throw new ArgumentException($"{source.SopInstanceUids.Count} source instances for {grid.Size.Z} slices", nameof(source));
         var frames = Frames(segments);
-        var now = DateTime.UtcNow;
-        string dimOrg = DicomUids.New(uidRoot);
+        var uids = new SegmentationHeader.UidSource(uidRoot, uidSeed);
+        var now = uidSeed is not null && study.StudyDate is { } d ? d.ToDateTime(new TimeOnly(12, 0)) : DateTime.UtcNow;
+        string dimOrg = uids.Next("dimension-organization");
         var ds = new DicomWriteDataset();
-        SegmentationHeader.AddPatientStudySeries(ds, study, source, uidRoot, seriesNumber, now);
+        SegmentationHeader.AddPatientStudySeries(ds, study, source, uids, seriesNumber, now);
         ds.Add(DicomTags.SOPClassUID, DicomVR.UI, SegmentationStorage)
-          .Add(DicomTags.SOPInstanceUID, DicomVR.UI, DicomUids.New(uidRoot))
+          .Add(DicomTags.SOPInstanceUID, DicomVR.UI, uids.Next("sop-instance"))
           .Add(DicomTags.ImageType, DicomVR.CS, "DERIVED", "PRIMARY")
           .Add(DicomTags.InstanceNumber, DicomVR.IS, 1)
           .Add(DicomTags.ContentLabel, DicomVR.CS, "SERIMETRY_SEG")
