@@ -51,6 +51,21 @@ public sealed class DicomOutputTests(DicomPhantomFixture fx, ITestOutputHelper o
         }
     }
 
+    [Fact]
+    public void Seg_without_source_images_passes_dciodvfy()
+    {
+        // The NIfTI-exam case: no Referenced Series, no Derivation Image groups, own study and frame of reference.
+        var v = fx.Subject.Visits[1];
+        var path = Path.Combine(fx.Dir, "seg-no-source.dcm");
+        SegmentationWriter.Write(path, v.T2w.Geometry,
+            [new SegmentDefinition("Prostate", DicomCode.AnatomicalStructure, DicomCode.Prostate, "AUTOMATIC", "test", v.GlandMask)],
+            new DicomStudyInfo("X", null, null, v.Date), null);
+        var (errors, warnings) = Dciodvfy.Check(path);
+        foreach (var w in warnings) output.WriteLine($"dciodvfy seg without source: {w}");
+        Assert.True(errors.Count == 0, string.Join('\n', errors));
+        Assert.Equal(v.GlandMask.Voxels, SegmentationReader.Read(path, v.T2w.Geometry)[0].Mask.Voxels);
+    }
+
     private static void AssertWithinQuantisation(float[] truth, float[] back)
     {
         var (slope, _) = MrSeriesWriter.Rescale(truth);

@@ -96,4 +96,14 @@ public sealed class MrSeriesAndSegRoundTripTests : IDisposable
         Assert.Throws<GeometryMismatchException>(() => SegmentationReader.Read(path, shifted));
         Assert.Throws<GeometryMismatchException>(() => SegmentationReader.Read(path, g.With(size: new Size3(6, 3, 6))));
     }
+
+    [Fact]
+    public void An_image_is_not_read_as_a_seg()
+    {
+        var g = Oblique(4, 4, 2);
+        var common = new DicomWriteDataset().Add(Engine.Io.Dicom.DicomTags.PatientID, Engine.Io.Dicom.DicomVR.LO, "P1");
+        MrSeriesWriter.Write(_dir, "mr", Ramp(g), common, "not-a-seg");
+        var e = Assert.Throws<InputFormatException>(() => SegmentationReader.Read(Path.Combine(_dir, "mr-0001.dcm"), g));
+        Assert.Contains("not a DICOM Segmentation", e.Message, StringComparison.Ordinal);
+    }
 }
