@@ -6,7 +6,10 @@ using Serimetry.Engine.Reports.Pictures;
 
 namespace Serimetry.Engine.Compare;
 
-/// <summary>Writes a comparison's files: change.json, measures.csv, changes.csv, report.html and its PNGs.</summary>
+/// <summary>
+/// Writes a comparison's files: change.json, measures.csv, changes.csv, report.html and its PNGs, radiomics CSVs,
+/// DICOM SEG <c>seg-&lt;visit&gt;.dcm</c> per visit and the TID 1500 SR <c>sr.dcm</c> (docs/dicom-out.md).
+/// </summary>
 public static class CompareOutputs
 {
     /// <summary>Writes everything into <paramref name="outDir"/> (created when missing) and returns the file names written.</summary>

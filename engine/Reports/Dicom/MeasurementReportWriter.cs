@@ -5,7 +5,12 @@ using Serimetry.Engine.Io.Dicom.Writing;
 namespace Serimetry.Engine.Reports.Dicom;
 
 /// <summary>The SEG written for one visit, for the SR's references (segment numbers by label).</summary>
-public sealed record VisitSegReference(int VisitIndex, DicomObjectIds Seg, IReadOnlyDictionary<string, int> SegmentNumbers);
+/// <param name="VisitIndex">0 = baseline.</param>
+/// <param name="Seg">Identifiers of the SEG.</param>
+/// <param name="SegmentNumbers">Segment number by label.</param>
+/// <param name="PatientName">Patient's Name of the source images when the exam is DICOM, else null.</param>
+public sealed record VisitSegReference(int VisitIndex, DicomObjectIds Seg, IReadOnlyDictionary<string, int> SegmentNumbers,
+    string? PatientName = null);
 
 /// <summary>
 /// Writes a change report as a Comprehensive SR (SOP Class 1.2.840.10008.5.1.4.1.1.88.33, PS3.3 A.35.3)

@@ -29,7 +29,8 @@ internal static class VisitSegOutputs
             var study = new DicomStudyInfo(v.Exam.PatientId, null, v.Exam.StudyInstanceUid, v.Exam.Date);
             var file = $"seg-{v.Index}.dcm";
             var ids = SegmentationWriter.Write(Path.Combine(outDir, file), grid, segments, study, reference, uidRoot);
-            written.Add(new VisitSegReference(v.Index, ids, segments.Select((s, i) => (s.Label, Number: i + 1)).ToDictionary(x => x.Label, x => x.Number)));
+            written.Add(new VisitSegReference(v.Index, ids, segments.Select((s, i) => (s.Label, Number: i + 1)).ToDictionary(x => x.Label, x => x.Number),
+                reference?.PatientName));
         }
         return written;
     }
@@ -43,7 +44,8 @@ internal static class VisitSegOutputs
     {
         var last = visits[^1].Exam;
         MeasurementReportWriter.Write(Path.Combine(outDir, "sr.dcm"), report,
-            new DicomStudyInfo(last.PatientId, null, last.StudyInstanceUid, last.Date), segs, uidRoot);
+            new DicomStudyInfo(last.PatientId, segs.LastOrDefault(s => s.PatientName is not null)?.PatientName, last.StudyInstanceUid, last.Date),
+            segs, uidRoot);
         return "sr.dcm";
     }
 

@@ -142,6 +142,10 @@ public sealed class DicomOutputTests(DicomPhantomFixture fx, ITestOutputHelper o
         // The lesion volume of each visit in the SR equals change.json's value (Src: our own report; 10 significant digits).
         var root = DicomFile.Read(path).Dataset;
         Assert.Equal("1500", root.GetSequence(DicomTags.ContentTemplateSequence).Single().GetString(DicomTags.TemplateIdentifier));
+        // The SR files under the patient and latest study of the DICOM images.
+        var lastT2 = DicomFile.ReadHeader(First(Path.Combine(fx.Visit(1), "dicom", "t2w"))).Dataset;
+        Assert.Equal(lastT2.GetString(DicomTags.PatientName), root.GetString(DicomTags.PatientName));
+        Assert.Equal(lastT2.GetString(DicomTags.StudyInstanceUID), root.GetString(DicomTags.StudyInstanceUID));
         var groups = root.GetSequence(DicomTags.ContentSequence)
             .Single(i => Meaning(i) == "Imaging Measurements").GetSequence(DicomTags.ContentSequence);
         Assert.Equal(2 * fx.Result.Visits.Count, groups.Count);
