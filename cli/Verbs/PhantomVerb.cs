@@ -13,7 +13,7 @@ internal sealed class PhantomVerb : IVerb
     public VerbSpec Spec { get; } = new(
         "phantom",
         "Generate a digital phantom subject with known truth (motion, lesion growth, ADC)",
-        "--out DIR [--spec SPEC.json] [--seed N] [--visits K] [--growth F] [--max-rotate DEG] [--max-shift MM] [--deform MM] [--format nifti]",
+        "--out DIR [--spec SPEC.json] [--seed N] [--visits K] [--growth F] [--max-rotate DEG] [--max-shift MM] [--deform MM] [--format nifti|dicom]",
         [
             new OptionSpec("out", "DIR", "output folder (visit-<k>/, truth.json, spec.json)", Required: true),
             new OptionSpec("spec", "SPEC.json", "phantom specification (default: built-in demo, same as phantoms/demo.json)"),
@@ -23,15 +23,15 @@ internal sealed class PhantomVerb : IVerb
             new OptionSpec("max-rotate", "DEG", "largest rotation between baseline and a visit"),
             new OptionSpec("max-shift", "MM", "largest translation between baseline and a visit"),
             new OptionSpec("deform", "MM", "amplitude of an optional mild divergence-free deformation of follow-ups (0-5 mm)"),
-            new OptionSpec("format", "nifti", "output format (nifti; DICOM output is not available yet)"),
+            new OptionSpec("format", "nifti|dicom", "output format: NIfTI files with exam.json, or DICOM MR series (docs/dicom-out.md)"),
         ],
         Details: "Options given on the command line override the spec file. Same spec and seed give identical files.");
 
     public int Run(ParsedArgs args, CliContext ctx)
     {
         var format = args.Get("format") ?? "nifti";
-        if (format != "nifti")
-            throw new UnsupportedInputException($"phantom output format '{format}' is not available", "--format", "use --format nifti");
+        if (format is not ("nifti" or "dicom"))
+            throw new UnsupportedInputException($"phantom output format '{format}' is not available", "--format", "use --format nifti or --format dicom");
         var spec = args.Get("spec") is string path ? PhantomSpec.Load(path) : new PhantomSpec();
         spec = spec with
         {
@@ -46,7 +46,9 @@ internal sealed class PhantomVerb : IVerb
             spec = spec with { PsaNgPerMl = ExtendPsa(spec.PsaNgPerMl, spec.Visits) };
         var subject = PhantomGenerator.Generate(spec);
         var outDir = args.Required("out");
-        PhantomWriter.WriteNifti(outDir, subject, k => ctx.Err.Write($"\rwrote visit {k}/{spec.Visits}"));
+        Action<int> progress = k => ctx.Err.Write($"\rwrote visit {k}/{spec.Visits}");
+        if (format == "dicom") PhantomDicomWriter.Write(outDir, subject, progress);
+        else PhantomWriter.WriteNifti(outDir, subject, progress);
         ctx.Err.WriteLine();
         foreach (var v in subject.Visits)
             ctx.Out.WriteLine(FormattableString.Invariant(

@@ -6,7 +6,10 @@ using Serimetry.Engine.Reports.Pictures;
 
 namespace Serimetry.Engine.Compare;
 
-/// <summary>Writes a comparison's files: change.json, measures.csv, changes.csv, report.html and its PNGs.</summary>
+/// <summary>
+/// Writes a comparison's files: change.json, measures.csv, changes.csv, report.html and its PNGs, radiomics CSVs,
+/// DICOM SEG <c>seg-&lt;visit&gt;.dcm</c> per visit and the TID 1500 SR <c>sr.dcm</c> (docs/dicom-out.md).
+/// </summary>
 public static class CompareOutputs
 {
     /// <summary>Writes everything into <paramref name="outDir"/> (created when missing) and returns the file names written.</summary>
@@ -23,6 +26,9 @@ public static class CompareOutputs
         WriteAtomically(Path.Combine(outDir, "report.html"), HtmlReport.Render(result.Report, pictures, adc));
         TidyCsv.WriteAll(result.Report, outDir);
         if (result.Radiomics.Count > 0) written.AddRange(VisitRadiomics.Write(result.Radiomics, outDir));
+        var segs = Reports.Dicom.VisitSegOutputs.WriteWithIds(result.Visits, result.ExamPaths, outDir);
+        written.AddRange(segs.Select(s => $"seg-{s.VisitIndex}.dcm"));
+        if (result.Visits.Count > 0) written.Add(Reports.Dicom.VisitSegOutputs.WriteSr(result.Report, result.Visits, segs, outDir));
         // change.json last: its presence means every other file is complete.
         WriteAtomically(Path.Combine(outDir, "change.json"), ChangeReportJson.Serialize(result.Report) + "\n");
         written.AddRange(["report.html", "measures.csv", "changes.csv", "change.json"]);

@@ -27,6 +27,9 @@ public sealed class CompareResult
     public IReadOnlyList<Radiomics.Series.VisitFeatures> Radiomics { get; }
 
     internal IReadOnlyList<VisitImages> Visits { get; }
+
+    /// <summary>The exam paths compared (baseline first), for outputs that reference the source files (DICOM SEG).</summary>
+    internal IReadOnlyList<string> ExamPaths { get; init; } = [];
 }
 
 /// <summary>
@@ -74,7 +77,7 @@ public static class ComparePipeline
         var report = ChangeReportBuilder.Build(inputs, registry.All.Select(MeasureDescriptor.From).ToList(), request.Profile,
             request.Psa, acquisitions, problems: problems, extraSettings: Settings(request.Options));
         progress?.Report(new CompareProgress("done", 1));
-        return new CompareResult(report, aligned, radiomics);
+        return new CompareResult(report, aligned, radiomics) { ExamPaths = [request.BaselineExam, .. request.FollowupExams] };
     }
 
     private static List<LoadedExam> LoadExams(CompareRequest request)
