@@ -19,7 +19,7 @@ internal sealed class CompareVerb : IVerb
         [
             new("baseline", "EXAM", "baseline exam: a folder with exam.json and NIfTI files, or a folder/.zip of DICOM files", Required: true),
             new("followup", "EXAM", "follow-up exam", Repeatable: true, Required: true),
-            new("out", "DIR", "output folder (change.json, measures.csv, changes.csv, report.html, PNGs)", Required: true),
+            new("out", "DIR", "output folder (change.json, measures.csv, changes.csv, report.html + PNGs, seg-<visit>.dcm, sr.dcm, radiomics CSV)", Required: true),
             new("gland", "MASK", "baseline whole-gland outline (NIfTI); default: the baseline exam's own"),
             new("lesion", "MASK", "baseline lesion outline (NIfTI); default: the exam's own, else whole-gland measures only"),
             new("psa", "YYYY-MM-DD=NG/ML", "a PSA value with its date", Repeatable: true),
