@@ -64,13 +64,13 @@ internal static class ComparisonEndpoints
         {
             ["comparisonId"] = c.Id, ["state"] = c.State,
             ["progress"] = new JsonObject { ["stage"] = c.Stage, ["percent"] = c.Percent },
-            ["created"] = c.Created, ["finished"] = c.Finished,
+            ["attempts"] = c.Runs, ["created"] = c.Created, ["finished"] = c.Finished,
         };
         if (c.State == "done")
         {
             string dir = Path.Combine(paths.Comparisons, c.Id);
             o["result"] = JsonNode.Parse(File.ReadAllText(Path.Combine(dir, "change.json")));
-            o["files"] = new JsonArray(Directory.GetFiles(dir).Select(f => (JsonNode)Path.GetFileName(f)).Order().ToArray());
+            o["files"] = new JsonArray(Directory.GetFiles(dir).Select(f => Path.GetFileName(f)).Order(StringComparer.Ordinal).Select(f => (JsonNode)f!).ToArray());
         }
         if (c.ProblemJson is not null) o["problem"] = JsonNode.Parse(c.ProblemJson);
         o["caution"] = SoftwareInfo.Caution;

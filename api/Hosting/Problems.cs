@@ -83,6 +83,10 @@ public static class Problems
             JsonException j => Document(400, "bad-request", "Malformed JSON", j.Message, ctx.Request.Path),
             _ => Document(500, "internal", "Internal error", "the service failed; the log has details", ctx.Request.Path),
         };
+        if ((int)doc["status"]! == 500 && error is not null)
+            // Type and stack only: exception messages may quote header values (patient data).
+            ctx.RequestServices.GetRequiredService<ILoggerFactory>().CreateLogger("Serimetry.Api").LogError(
+                "unhandled {ErrorType} at {StackTrace}", error.GetType().FullName, error.StackTrace);
         await Write(ctx, doc);
     }
 }
