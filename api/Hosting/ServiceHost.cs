@@ -26,6 +26,7 @@ public static class ServiceHost
     {
         ["--data"] = "Serimetry:DataDir", ["--urls"] = "Serimetry:Urls", ["--max-request-bytes"] = "Serimetry:MaxRequestBytes",
         ["--workers"] = "Serimetry:Workers", ["--job-timeout"] = "Serimetry:JobTimeoutSeconds",
+        ["--rate-limit"] = "Serimetry:RequestsPerMinute",
     };
 
     /// <summary>Reads <see cref="ServiceOptions"/> from the configuration sources and <paramref name="args"/>.</summary>
@@ -51,12 +52,14 @@ public static class ServiceHost
         builder.Services.ConfigureHttpJsonOptions(o => o.SerializerOptions.PropertyNamingPolicy = System.Text.Json.JsonNamingPolicy.CamelCase);
         builder.Services.AddOpenApi();
         AddJobs(builder.Services, paths, options);
+        KeyRateLimit.Add(builder.Services, options.RequestsPerMinute);
 
         var app = builder.Build();
         app.UseExceptionHandler(new ExceptionHandlerOptions { ExceptionHandler = Problems.HandleException });
         app.UseStatusCodePages(ctx => ctx.HttpContext.Response.HasStarted ? Task.CompletedTask
             : Problems.Write(ctx.HttpContext, ctx.HttpContext.Response.StatusCode, "http-" + ctx.HttpContext.Response.StatusCode, "Request failed", null));
         app.Use(ApiKeyMiddleware.Invoke);
+        app.UseRateLimiter();
         MapEndpoints(app);
         return app;
     }

@@ -23,4 +23,7 @@ public sealed record ServiceOptions
     /// (the job storage's invisibility timeout). Must exceed the longest comparison.
     /// </summary>
     public int JobTimeoutSeconds { get; init; } = 1800;
+
+    /// <summary>Requests per minute allowed per API key (0: no limit); above it 429.</summary>
+    public int RequestsPerMinute { get; init; } = 1200;
 }

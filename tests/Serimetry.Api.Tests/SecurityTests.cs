@@ -23,7 +23,7 @@ public sealed class SecurityTests
         string data = Workflow.TempDir();
         string key = ServiceProcess.CreateKey(data, "security");
         Assert.StartsWith("smk_", key);
-        using var service = await ServiceProcess.Start(data, "--max-request-bytes", "1000000");
+        using var service = await ServiceProcess.Start(data, "--max-request-bytes", "1000000", "--rate-limit", "30");
         using var anonymous = new ApiClient(service.BaseUrl, null);
         using var wrong = new ApiClient(service.BaseUrl, key[..^4] + "AAAA");
         using var api = new ApiClient(service.BaseUrl, key);
@@ -55,5 +55,15 @@ public sealed class SecurityTests
         var bomb = await api.Expect(HttpStatusCode.RequestEntityTooLarge, HttpMethod.Post, "/v1/studies",
             ApiClient.Bytes(Zip("slice.dcm", 40_000_000), "application/zip"));
         Assert.Equal("urn:serimetry:problem:input-limit", (string?)bomb["type"]);
+
+        // Per-key limit of 30 requests/minute: within 31 more requests one must be refused with 429 (Src: RFC 6585 §4),
+        // while /health and other keys stay served.
+        HttpStatusCode last = HttpStatusCode.OK;
+        for (int i = 0; i < 31 && last != HttpStatusCode.TooManyRequests; i++)
+            last = (await api.Send(HttpMethod.Get, "/v1/comparisons/x")).StatusCode;
+        Assert.Equal(HttpStatusCode.TooManyRequests, last);
+        var limited = await api.Expect(HttpStatusCode.TooManyRequests, HttpMethod.Get, "/v1/comparisons/x");
+        Assert.Equal("urn:serimetry:problem:rate-limited", (string?)limited["type"]);
+        Assert.Equal(HttpStatusCode.OK, (await anonymous.Send(HttpMethod.Get, "/health")).StatusCode);
     }
 }
