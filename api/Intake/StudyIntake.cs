@@ -53,6 +53,10 @@ public sealed class StudyIntake(DataPaths paths, BlobStore blobs, MetadataStore 
         return final;
     }
 
+    /// <summary>DICOM DA (YYYYMMDD, PS3.5 §6.2) as ISO 8601 yyyy-MM-dd, like NIfTI exam dates; other text unchanged.</summary>
+    private static string? IsoDate(string? da) =>
+        da is { Length: 8 } && da.All(char.IsAsciiDigit) ? $"{da[..4]}-{da[4..6]}-{da[6..]}" : da;
+
     private static StudyRecord Index(string id, string dir)
     {
         string manifest = Path.Combine(dir, ExamManifest.FileName);
@@ -70,6 +74,6 @@ public sealed class StudyIntake(DataPaths paths, BlobStore blobs, MetadataStore 
             throw new InputFormatException($"the upload holds {report.Studies.Count} DICOM studies, expected exactly one", "request body",
                 "send one study per request (or a NIfTI exam with exam.json)");
         var s = report.Studies[0];
-        return new StudyRecord(id, s.PatientId, s.StudyDate, "dicom", JsonSerializer.Serialize(s.Series, InspectReport.JsonOptions));
+        return new StudyRecord(id, s.PatientId, IsoDate(s.StudyDate), "dicom", JsonSerializer.Serialize(s.Series, InspectReport.JsonOptions));
     }
 }

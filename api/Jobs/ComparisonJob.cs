@@ -28,6 +28,7 @@ public sealed class ComparisonJob(DataPaths paths, MetadataStore store, ILogger<
         string final = Path.Combine(paths.Comparisons, comparisonId);
         if (File.Exists(Path.Combine(final, "change.json"))) { store.FinishComparison(comparisonId, "done", null); return; }
         if (!store.StartComparison(comparisonId)) return;
+        RemoveLeftovers(comparisonId);
         log.LogInformation("comparison {ComparisonId} started (attempt {Attempt})", comparisonId, rec.Runs + 1);
         try
         {
@@ -51,6 +52,16 @@ public sealed class ComparisonJob(DataPaths paths, MetadataStore store, ILogger<
             store.FinishComparison(comparisonId, "failed",
                 Problems.Document(500, "internal", "Comparison failed", "the engine failed; the service log has the error type").ToJsonString());
             log.LogError("comparison {ComparisonId} failed with {ErrorType}", comparisonId, e.GetType().FullName);
+        }
+    }
+
+    /// <summary>Deletes scratch folders of earlier attempts (a re-run means their node is gone).</summary>
+    private void RemoveLeftovers(string comparisonId)
+    {
+        foreach (var d in Directory.GetDirectories(paths.Incoming, $"cmp-{comparisonId}-*"))
+        {
+            try { Directory.Delete(d, recursive: true); }
+            catch (IOException) { }
         }
     }
 

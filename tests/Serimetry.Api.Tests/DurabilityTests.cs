@@ -31,6 +31,7 @@ public sealed class DurabilityTests
         // Exactly once: two attempts started (the killed one and the resumed one), one result folder.
         Assert.Equal(2, (int)done["attempts"]!);
         Assert.Single(Directory.GetDirectories(Path.Combine(data, "comparisons")));
+        Assert.Empty(Directory.GetDirectories(Path.Combine(data, "incoming"), $"cmp-{id}-*"));
         // Complete: the result equals the engine's own run on the same inputs (Src: ComparePipeline directly).
         Assert.True(JsonNode.DeepEquals(JsonNode.Parse(PhantomStudies.ReferenceChangeJson), done["result"]));
         foreach (var f in new[] { "report.html", "measures.csv", "changes.csv" })
