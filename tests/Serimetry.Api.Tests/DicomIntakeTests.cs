@@ -7,8 +7,12 @@ using Serimetry.Tests.Shared;
 namespace Serimetry.Api.Tests;
 
 /// <summary>DICOM study intake as a zip and as DICOMweb STOW-RS style multipart/related (PS3.18 §10.5), against dcmtk.</summary>
-public sealed class DicomIntakeTests
+public sealed class DicomIntakeTests : IDisposable
 {
+    private readonly string _data = Workflow.TempDir();
+
+    public void Dispose() => Workflow.DeleteQuietly(_data);
+
     private static string[] Files() =>
         Directory.GetFiles(SharedReference.PathOf("dicom", "series-oblique"), "*.dcm").Order(StringComparer.Ordinal).ToArray();
 
@@ -25,7 +29,7 @@ public sealed class DicomIntakeTests
     [Fact]
     public async Task Dicom_zip_and_multipart_related_uploads_are_indexed_like_dcmtk_reads_them()
     {
-        string data = Workflow.TempDir();
+        string data = _data;
         string key = ServiceProcess.CreateKey(data, "dicom");
         using var service = await ServiceProcess.Start(data);
         using var api = new ApiClient(service.BaseUrl, key);

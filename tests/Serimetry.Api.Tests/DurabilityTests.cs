@@ -4,12 +4,16 @@ using System.Text.Json.Nodes;
 namespace Serimetry.Api.Tests;
 
 /// <summary>A comparison survives a crash of the serving process (real SIGKILL) and completes once after restart.</summary>
-public sealed class DurabilityTests
+public sealed class DurabilityTests : IDisposable
 {
+    private readonly string _data = Workflow.TempDir();
+
+    public void Dispose() => Workflow.DeleteQuietly(_data);
+
     [Fact]
     public async Task Killed_node_mid_job_then_restart_completes_the_job_exactly_once()
     {
-        string data = Workflow.TempDir();
+        string data = _data;
         string key = ServiceProcess.CreateKey(data, "durability");
         string id;
         // A short job timeout so the restarted node takes over the orphaned job within seconds.

@@ -5,12 +5,16 @@ using Serimetry.Engine;
 namespace Serimetry.Api.Tests;
 
 /// <summary>The whole service over HTTP on loopback, as a separate process, against the engine run directly.</summary>
-public sealed class EndToEndTests
+public sealed class EndToEndTests : IDisposable
 {
+    private readonly string _data = Workflow.TempDir();
+
+    public void Dispose() => Workflow.DeleteQuietly(_data);
+
     [Fact]
     public async Task Phantom_comparison_over_http_equals_the_engine_run_directly_and_logs_no_patient_id()
     {
-        string data = Workflow.TempDir();
+        string data = _data;
         string key = ServiceProcess.CreateKey(data, "e2e");
         using var service = await ServiceProcess.Start(data);
         using var api = new ApiClient(service.BaseUrl, key);

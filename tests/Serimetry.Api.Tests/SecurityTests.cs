@@ -4,8 +4,12 @@ using System.Net;
 namespace Serimetry.Api.Tests;
 
 /// <summary>Authentication, request size limit and hostile archives against a real service process.</summary>
-public sealed class SecurityTests
+public sealed class SecurityTests : IDisposable
 {
+    private readonly string _data = Workflow.TempDir();
+
+    public void Dispose() => Workflow.DeleteQuietly(_data);
+
     private static byte[] Zip(string entryName, int zeroBytes)
     {
         using var ms = new MemoryStream();
@@ -20,7 +24,7 @@ public sealed class SecurityTests
     [Fact]
     public async Task Keys_size_limit_zip_bomb_and_path_traversal_are_enforced_with_problem_details()
     {
-        string data = Workflow.TempDir();
+        string data = _data;
         string key = ServiceProcess.CreateKey(data, "security");
         Assert.StartsWith("smk_", key);
         using var service = await ServiceProcess.Start(data, "--max-request-bytes", "1000000", "--rate-limit", "30");

@@ -32,10 +32,18 @@ internal static class Workflow
         return id;
     }
 
+    /// <summary>A fresh temporary folder; the test deletes it with <see cref="DeleteQuietly"/>.</summary>
     public static string TempDir()
     {
         string d = Path.Combine(Path.GetTempPath(), "serimetry-api-test-" + Guid.NewGuid().ToString("N")[..8]);
         Directory.CreateDirectory(d);
         return d;
+    }
+
+    public static void DeleteQuietly(string dir)
+    {
+        try { Directory.Delete(dir, recursive: true); }
+        catch (IOException) { }
+        catch (UnauthorizedAccessException) { }
     }
 }
