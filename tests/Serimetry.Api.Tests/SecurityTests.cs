@@ -43,6 +43,16 @@ public sealed class SecurityTests : IDisposable
         using (var spec = await api.Send(HttpMethod.Get, "/openapi.json"))
             Assert.Contains("/v1/comparisons/{id}", await spec.Content.ReadAsStringAsync());
 
+        // Malformed JSON and unknown ids: 400 problem details, nothing queued (Src: RFC 9110 §15.5.1, RFC 9457).
+        var malformed = await api.Expect(HttpStatusCode.BadRequest, HttpMethod.Post, "/v1/comparisons",
+            new StringContent("{\"baselineStudyId\": ", System.Text.Encoding.UTF8, "application/json"));
+        Assert.Equal("urn:serimetry:problem:bad-request", (string?)malformed["type"]);
+        var unknown = await api.Expect(HttpStatusCode.BadRequest, HttpMethod.Post, "/v1/comparisons",
+            new StringContent("{\"baselineStudyId\":\"nope\",\"followupStudyIds\":[\"nope2\"]}", System.Text.Encoding.UTF8, "application/json"));
+        Assert.Contains("nope", (string?)unknown["detail"]);
+        var notNifti = await api.Expect(HttpStatusCode.NotFound, HttpMethod.Post, "/v1/masks?studyId=nope", ApiClient.Bytes([1, 2, 3], "application/octet-stream"));
+        Assert.Equal("urn:serimetry:problem:not-found", (string?)notNifti["type"]);
+
         // Src: RFC 9110 §15.5.14 (413 Content Too Large) for a body above the configured limit.
         var big = await api.Expect(HttpStatusCode.RequestEntityTooLarge, HttpMethod.Post, "/v1/studies",
             ApiClient.Bytes(new byte[2_000_000], "application/zip"));
