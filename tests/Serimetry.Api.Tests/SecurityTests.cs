@@ -79,5 +79,11 @@ public sealed class SecurityTests : IDisposable
         var limited = await api.Expect(HttpStatusCode.TooManyRequests, HttpMethod.Get, "/v1/comparisons/x");
         Assert.Equal("urn:serimetry:problem:rate-limited", (string?)limited["type"]);
         Assert.Equal(HttpStatusCode.OK, (await anonymous.Send(HttpMethod.Get, "/health")).StatusCode);
+
+        // Keys are stored hashed: the secret part appears in no file of the data folder (database and its WAL).
+        service.Kill();
+        string secret = key["smk_".Length..].Split('_', 2)[1];
+        foreach (var f in Directory.GetFiles(data, "serimetry.db*"))
+            Assert.DoesNotContain(secret, System.Text.Encoding.Latin1.GetString(File.ReadAllBytes(f)));
     }
 }
