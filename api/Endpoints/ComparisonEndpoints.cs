@@ -44,6 +44,8 @@ internal static class ComparisonEndpoints
             if (store.FindStudy(s) is null) return $"no study with id '{s}' (upload it with POST /v1/studies first)";
         foreach (var m in new[] { b.GlandMaskId, b.LesionMaskId })
             if (m is not null && store.FindMask(m) is null) return $"no mask with id '{m}' (upload it with POST /v1/masks first)";
+        if (b.CallbackUrl is not null && !(Uri.TryCreate(b.CallbackUrl, UriKind.Absolute, out var u) && u.Scheme is "http" or "https"))
+            return $"callbackUrl must be an absolute http(s) URL, got '{b.CallbackUrl}'";
         foreach (var p in b.Psa ?? [])
             if (!DateOnly.TryParseExact(p.Date, "yyyy-MM-dd", out _) || !double.IsFinite(p.Value) || p.Value < 0)
                 return $"psa entries need date yyyy-MM-dd and a value >= 0 ng/mL, got '{p.Date}'={p.Value}";

@@ -47,7 +47,7 @@ public static class ServiceHost
         var paths = new DataPaths(options.DataDir);
         var store = new MetadataStore(paths.MetadataDb);
         builder.Services.AddSingleton(options).AddSingleton(paths).AddSingleton(store)
-            .AddSingleton<BlobStore>().AddSingleton<StudyIntake>().AddTransient<ComparisonJob>();
+            .AddSingleton<BlobStore>().AddSingleton<StudyIntake>().AddTransient<ComparisonJob>().AddTransient<CallbackJob>();
         builder.Services.Configure<RouteHandlerOptions>(o => o.ThrowOnBadRequest = true);
         builder.Services.ConfigureHttpJsonOptions(o => o.SerializerOptions.PropertyNamingPolicy = System.Text.Json.JsonNamingPolicy.CamelCase);
         builder.Services.AddOpenApi();

@@ -17,7 +17,7 @@ namespace Serimetry.Api.Jobs;
 /// outputs are written to a scratch folder and renamed into <c>comparisons/&lt;id&gt;</c> in one step, and a job whose
 /// folder or final state already exists ends at once, so a retried job never produces a second result.
 /// </summary>
-public sealed class ComparisonJob(DataPaths paths, MetadataStore store, ILogger<ComparisonJob> log)
+public sealed class ComparisonJob(DataPaths paths, MetadataStore store, IBackgroundJobClient jobs, ILogger<ComparisonJob> log)
 {
     /// <summary>Runs comparison <paramref name="comparisonId"/> (engine errors end it as failed, not retried).</summary>
     [AutomaticRetry(Attempts = 0)]
@@ -30,9 +30,22 @@ public sealed class ComparisonJob(DataPaths paths, MetadataStore store, ILogger<
         if (!store.StartComparison(comparisonId)) return;
         RemoveLeftovers(comparisonId);
         log.LogInformation("comparison {ComparisonId} started (attempt {Attempt})", comparisonId, rec.Runs + 1);
+        var submission = JsonSerializer.Deserialize<ComparisonSubmission>(rec.RequestJson, ServiceJson.Options)!;
         try
         {
-            var request = BuildRequest(JsonSerializer.Deserialize<ComparisonSubmission>(rec.RequestJson, ServiceJson.Options)!);
+            Execute(comparisonId, submission, final);
+        }
+        finally
+        {
+            if (submission.CallbackUrl is not null) jobs.Enqueue<CallbackJob>(j => j.Notify(comparisonId));
+        }
+    }
+
+    private void Execute(string comparisonId, ComparisonSubmission submission, string final)
+    {
+        try
+        {
+            var request = BuildRequest(submission);
             var result = ComparePipeline.Run(request, new StoreProgress(store, comparisonId));
             store.Progress(comparisonId, "writing outputs", 99);
             string tmp = Path.Combine(paths.Incoming, $"cmp-{comparisonId}-{Guid.NewGuid():N}");

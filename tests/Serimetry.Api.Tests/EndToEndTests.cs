@@ -27,7 +27,8 @@ public sealed class EndToEndTests : IDisposable
         var again = await api.Expect(HttpStatusCode.Created, HttpMethod.Post, "/v1/studies", ApiClient.Bytes(PhantomStudies.VisitZip(0), "application/zip"));
         Assert.Equal((string?)study["studyId"], (string?)again["studyId"]);
 
-        string id = await Workflow.SubmitPhantomComparison(api);
+        using var callbacks = new CallbackReceiver(failFirst: 1);
+        string id = await Workflow.SubmitPhantomComparison(api, callbacks.Url);
         var done = await api.WaitFinished(id);
         Assert.Equal("done", (string?)done["state"]);
         Assert.Equal(SoftwareInfo.Caution, (string?)done["caution"]);
@@ -43,6 +44,12 @@ public sealed class EndToEndTests : IDisposable
 
         var timeline = await api.Expect(HttpStatusCode.OK, HttpMethod.Get, $"/v1/patients/{PhantomStudies.PatientId}/timeline");
         Assert.Equal(id, (string?)timeline["comparisons"]![0]!["comparisonId"]);
+
+        // Webhook: the first delivery is refused (503), the retry is accepted; the body carries ids only.
+        var delivered = await callbacks.WaitFor(2);
+        Assert.All(delivered, b => Assert.Contains(id, b));
+        Assert.All(delivered, b => Assert.Contains("\"done\"", b));
+        Assert.DoesNotContain(delivered, b => b.Contains(PhantomStudies.PatientId));
 
         service.Kill();
         // Rule of the project: never log patient identifiers. Src: the phantom's patient id is the PHI value grepped for.
