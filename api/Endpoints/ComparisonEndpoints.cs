@@ -40,6 +40,8 @@ internal static class ComparisonEndpoints
     {
         if (b.BaselineStudyId is null) return "baselineStudyId is required";
         if (b.FollowupStudyIds is not { Count: > 0 }) return "followupStudyIds needs at least one study id";
+        if (b.Options?.FollowupPreset is { } preset && preset is not ("rigid" or "affine"))
+            return $"options.followupPreset must be rigid or affine, got '{preset}'";
         foreach (var s in b.FollowupStudyIds.Prepend(b.BaselineStudyId))
             if (store.FindStudy(s) is null) return $"no study with id '{s}' (upload it with POST /v1/studies first)";
         foreach (var m in new[] { b.GlandMaskId, b.LesionMaskId })

@@ -84,8 +84,14 @@ public sealed class ComparisonJob(DataPaths paths, MetadataStore store, IBackgro
         string? Mask(string? id) => id is null ? null : Path.Combine(paths.Masks, store.FindMask(id)!.File);
         var psa = (s.Psa ?? []).Select(p => new PsaSample(DateOnly.ParseExact(p.Date, "yyyy-MM-dd", CultureInfo.InvariantCulture), p.Value)).ToList();
         // Same defaults as 'serimetry compare' without options, so the service and the CLI give the same change.json.
+        var o = s.Options ?? new ComparisonSettings();
+        var options = new ComparisonOptions(
+            AllowDifferentPatients: o.AllowDifferentPatients ?? false,
+            FollowupPreset: o.FollowupPreset ?? "rigid",
+            WithinExamPreset: o.WithinExam == false ? null : "within-exam",
+            Radiomics: o.Radiomics == false ? null : new RadiomicsSettings());
         return new CompareRequest(Study(s.BaselineStudyId!), s.FollowupStudyIds!.Select(Study).ToList(), Mask(s.GlandMaskId), Mask(s.LesionMaskId),
-            psa, RepeatabilityProfile.LoadDefault(), new ComparisonOptions(Radiomics: new RadiomicsSettings()));
+            psa, RepeatabilityProfile.LoadDefault(), options);
     }
 
     /// <summary>Stores stage and percent, at most once per whole percent or stage change (synchronous, in order).</summary>

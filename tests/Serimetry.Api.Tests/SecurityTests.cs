@@ -50,6 +50,10 @@ public sealed class SecurityTests : IDisposable
         var unknown = await api.Expect(HttpStatusCode.BadRequest, HttpMethod.Post, "/v1/comparisons",
             new StringContent("{\"baselineStudyId\":\"nope\",\"followupStudyIds\":[\"nope2\"]}", System.Text.Encoding.UTF8, "application/json"));
         Assert.Contains("nope", (string?)unknown["detail"]);
+        var badPreset = await api.Expect(HttpStatusCode.BadRequest, HttpMethod.Post, "/v1/comparisons",
+            new StringContent("{\"baselineStudyId\":\"a\",\"followupStudyIds\":[\"b\"],\"options\":{\"followupPreset\":\"warp\"}}",
+                System.Text.Encoding.UTF8, "application/json"));
+        Assert.Contains("followupPreset", (string?)badPreset["detail"]);
         var notNifti = await api.Expect(HttpStatusCode.NotFound, HttpMethod.Post, "/v1/masks?studyId=nope", ApiClient.Bytes([1, 2, 3], "application/octet-stream"));
         Assert.Equal("urn:serimetry:problem:not-found", (string?)notNifti["type"]);
 
