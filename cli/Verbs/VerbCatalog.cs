@@ -13,5 +13,7 @@ internal static class VerbCatalog
         new QaVerb(),
         new QaAdcVerb(),
         new RadiomicsVerb(),
+        new ServeVerb(),
+        new KeysVerb(),
     ];
 }

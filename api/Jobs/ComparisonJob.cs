@@ -1,0 +1,111 @@
+using System.Globalization;
+using System.Text.Json;
+using Hangfire;
+using Serimetry.Api.Hosting;
+using Serimetry.Api.Storage;
+using Serimetry.Engine.Change;
+using Serimetry.Engine.Compare;
+using Serimetry.Engine.Core;
+using Serimetry.Engine.Radiomics;
+using Serimetry.Engine.Repeatability;
+
+namespace Serimetry.Api.Jobs;
+
+/// <summary>
+/// The durable comparison job, run by a Hangfire worker. Hangfire keeps the job in its storage until a worker
+/// finishes it; a job whose worker died is fetched again after the invisibility timeout. The job is idempotent:
+/// outputs are written to a scratch folder and renamed into <c>comparisons/&lt;id&gt;</c> in one step, and a job whose
+/// folder or final state already exists ends at once, so a retried job never produces a second result.
+/// </summary>
+public sealed class ComparisonJob(DataPaths paths, MetadataStore store, IBackgroundJobClient jobs, ILogger<ComparisonJob> log)
+{
+    /// <summary>Runs comparison <paramref name="comparisonId"/> (engine errors end it as failed, not retried).</summary>
+    [AutomaticRetry(Attempts = 0)]
+    public void Run(string comparisonId)
+    {
+        var rec = store.FindComparison(comparisonId);
+        if (rec is null || rec.State is "done" or "failed") return;
+        string final = Path.Combine(paths.Comparisons, comparisonId);
+        if (File.Exists(Path.Combine(final, "change.json"))) { store.FinishComparison(comparisonId, "done", null); return; }
+        if (!store.StartComparison(comparisonId)) return;
+        RemoveLeftovers(comparisonId);
+        log.LogInformation("comparison {ComparisonId} started (attempt {Attempt})", comparisonId, rec.Runs + 1);
+        var submission = JsonSerializer.Deserialize<ComparisonSubmission>(rec.RequestJson, ServiceJson.Options)!;
+        try
+        {
+            Execute(comparisonId, submission, final);
+        }
+        finally
+        {
+            if (submission.CallbackUrl is not null) jobs.Enqueue<CallbackJob>(j => j.Notify(comparisonId));
+        }
+    }
+
+    private void Execute(string comparisonId, ComparisonSubmission submission, string final)
+    {
+        try
+        {
+            var request = BuildRequest(submission);
+            var result = ComparePipeline.Run(request, new StoreProgress(store, comparisonId));
+            store.Progress(comparisonId, "writing outputs", 99);
+            string tmp = Path.Combine(paths.Incoming, $"cmp-{comparisonId}-{Guid.NewGuid():N}");
+            CompareOutputs.Write(result, tmp);
+            try { Directory.Move(tmp, final); }
+            catch (IOException) when (Directory.Exists(final)) { Directory.Delete(tmp, recursive: true); }
+            store.FinishComparison(comparisonId, "done", null);
+            log.LogInformation("comparison {ComparisonId} done", comparisonId);
+        }
+        catch (InputException e)
+        {
+            store.FinishComparison(comparisonId, "failed", Problems.FromInput(e).ToJsonString());
+            log.LogWarning("comparison {ComparisonId} failed: input problem of kind {Kind}", comparisonId, e.Kind);
+        }
+        catch (Exception e) when (e is not OutOfMemoryException)
+        {
+            store.FinishComparison(comparisonId, "failed",
+                Problems.Document(500, "internal", "Comparison failed", "the engine failed; the service log has the error type").ToJsonString());
+            log.LogError("comparison {ComparisonId} failed with {ErrorType}", comparisonId, e.GetType().FullName);
+        }
+    }
+
+    /// <summary>Deletes scratch folders of earlier attempts (a re-run means their node is gone).</summary>
+    private void RemoveLeftovers(string comparisonId)
+    {
+        foreach (var d in Directory.GetDirectories(paths.Incoming, $"cmp-{comparisonId}-*"))
+        {
+            try { Directory.Delete(d, recursive: true); }
+            catch (IOException) { }
+        }
+    }
+
+    private CompareRequest BuildRequest(ComparisonSubmission s)
+    {
+        string Study(string id) => Path.Combine(paths.Studies, id);
+        string? Mask(string? id) => id is null ? null : Path.Combine(paths.Masks, store.FindMask(id)!.File);
+        var psa = (s.Psa ?? []).Select(p => new PsaSample(DateOnly.ParseExact(p.Date, "yyyy-MM-dd", CultureInfo.InvariantCulture), p.Value)).ToList();
+        // Same defaults as 'serimetry compare' without options, so the service and the CLI give the same change.json.
+        var o = s.Options ?? new ComparisonSettings();
+        var options = new ComparisonOptions(
+            AllowDifferentPatients: o.AllowDifferentPatients ?? false,
+            FollowupPreset: o.FollowupPreset ?? "rigid",
+            WithinExamPreset: o.WithinExam == false ? null : "within-exam",
+            Radiomics: o.Radiomics == false ? null : new RadiomicsSettings());
+        return new CompareRequest(Study(s.BaselineStudyId!), s.FollowupStudyIds!.Select(Study).ToList(), Mask(s.GlandMaskId), Mask(s.LesionMaskId),
+            psa, RepeatabilityProfile.LoadDefault(), options);
+    }
+
+    /// <summary>Stores stage and percent, at most once per whole percent or stage change (synchronous, in order).</summary>
+    private sealed class StoreProgress(MetadataStore store, string id) : IProgress<CompareProgress>
+    {
+        private string _stage = "";
+        private int _percent = -1;
+
+        public void Report(CompareProgress value)
+        {
+            int p = (int)Math.Floor(value.Fraction * 100);
+            if (p == _percent && value.Stage == _stage) return;
+            (_stage, _percent) = (value.Stage, p);
+            store.Progress(id, value.Stage, Math.Min(p, 98));
+        }
+    }
+}

@@ -1,0 +1,35 @@
+using Serimetry.Api.Hosting;
+
+namespace Serimetry.Cli.Verbs;
+
+/// <summary><c>serimetry serve</c>: hosts the HTTP service (docs/service.md); the verb only forwards its options.</summary>
+internal sealed class ServeVerb : IVerb
+{
+    public VerbSpec Spec { get; } = new("serve",
+        "Run the HTTP service: study intake, durable comparison jobs, results (docs/service.md)",
+        "[--urls URL] [--data DIR] [--max-request-bytes N] [--workers N] [--job-timeout SECONDS] [--rate-limit N]",
+        [
+            new("urls", "URL", "listening URLs, ';'-separated (default http://127.0.0.1:8080)"),
+            new("data", "DIR", "data folder: databases, stored studies and results (default ./serimetry-data)"),
+            new("max-request-bytes", "N", "largest upload accepted; larger ones get 413 (default 2 GiB)"),
+            new("workers", "N", "comparison jobs run in parallel on this node (default 1)"),
+            new("job-timeout", "SECONDS", "after this a job of a vanished node is run again (default 1800)"),
+            new("rate-limit", "N", "requests per minute per API key; 0 = no limit (default 1200)"),
+        ],
+        Details: "Settings also come from appsettings.json (section \"Serimetry\") and environment variables (Serimetry__DataDir, ...).");
+
+    public int Run(ParsedArgs args, CliContext ctx)
+    {
+        ServiceHost.Run(Forward(args));
+        return CliHost.ExitOk;
+    }
+
+    /// <summary>The verb's options as configuration command-line switches.</summary>
+    internal static string[] Forward(ParsedArgs args)
+    {
+        var list = new List<string>();
+        foreach (var name in ServiceHost.Switches.Keys)
+            if (args.Get(name[2..]) is string v) list.AddRange([name, v]);
+        return [.. list];
+    }
+}

@@ -1,0 +1,105 @@
+using System.Diagnostics;
+using System.Net;
+using System.Net.Sockets;
+using System.Text;
+
+namespace Serimetry.Api.Tests;
+
+/// <summary>
+/// A real <c>serimetry serve</c> child process on a free loopback port with its own data folder; stdout and
+/// stderr (the service log) are captured for the PHI checks.
+/// </summary>
+internal sealed class ServiceProcess : IDisposable
+{
+    private readonly Process _process;
+    private readonly StringBuilder _log = new();
+
+    private ServiceProcess(Process p, string url)
+    {
+        _process = p;
+        BaseUrl = url;
+    }
+
+    public string BaseUrl { get; }
+
+    public string Log { get { lock (_log) return _log.ToString(); } }
+
+    /// <summary>Path of the built CLI (copied beside the tests by the project reference).</summary>
+    public static string CliDll => Path.Combine(AppContext.BaseDirectory, "serimetry.dll");
+
+    public static async Task<ServiceProcess> Start(string dataDir, params string[] extra)
+    {
+        int port = FreePort();
+        string url = $"http://127.0.0.1:{port}";
+        var psi = Psi(["serve", "--data", dataDir, "--urls", url, .. extra]);
+        var p = Process.Start(psi)!;
+        var s = new ServiceProcess(p, url);
+        p.OutputDataReceived += (_, e) => s.Append(e.Data);
+        p.ErrorDataReceived += (_, e) => s.Append(e.Data);
+        p.BeginOutputReadLine();
+        p.BeginErrorReadLine();
+        await s.WaitHealthy();
+        return s;
+    }
+
+    /// <summary>Runs <c>serimetry keys create</c> and returns the last line of its output (the key).</summary>
+    public static string CreateKey(string dataDir, string name)
+    {
+        using var p = Process.Start(Psi(["keys", "create", "--name", name, "--data", dataDir]))!;
+        string output = p.StandardOutput.ReadToEnd();
+        p.WaitForExit();
+        Assert.Equal(0, p.ExitCode);
+        return output.TrimEnd().Split('\n')[^1].Trim();
+    }
+
+    private static ProcessStartInfo Psi(string[] args)
+    {
+        var psi = new ProcessStartInfo("dotnet") { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
+        psi.ArgumentList.Add(CliDll);
+        foreach (var a in args) psi.ArgumentList.Add(a);
+        psi.Environment["DOTNET_NOLOGO"] = "1";
+        return psi;
+    }
+
+    private void Append(string? line)
+    {
+        if (line is null) return;
+        lock (_log) _log.AppendLine(line);
+    }
+
+    private async Task WaitHealthy()
+    {
+        using var http = new HttpClient();
+        for (int i = 0; i < 600; i++)
+        {
+            if (_process.HasExited) throw new InvalidOperationException("service exited early:\n" + Log);
+            try
+            {
+                if ((await http.GetAsync(BaseUrl + "/health")).StatusCode == HttpStatusCode.OK) return;
+            }
+            catch (HttpRequestException) { }
+            await Task.Delay(100);
+        }
+        throw new TimeoutException("service did not become healthy:\n" + Log);
+    }
+
+    private static int FreePort()
+    {
+        using var l = new TcpListener(IPAddress.Loopback, 0);
+        l.Start();
+        return ((IPEndPoint)l.LocalEndpoint).Port;
+    }
+
+    /// <summary>Kills the process at once (SIGKILL: no graceful shutdown, like a node crash).</summary>
+    public void Kill()
+    {
+        if (!_process.HasExited) _process.Kill(entireProcessTree: true);
+        _process.WaitForExit();
+    }
+
+    public void Dispose()
+    {
+        Kill();
+        _process.Dispose();
+    }
+}
