@@ -10,5 +10,6 @@ COPY --from=build /app .
 VOLUME ["/data"]
 USER app
 ENTRYPOINT ["dotnet", "serimetry.dll"]
-# The HTTP service (`serve`) is being built; until then the image runs the demo into the data volume.
-CMD ["demo", "--out", "/data/demo"]
+EXPOSE 8080
+# Create a key first: docker run --rm -v DATA:/data IMAGE keys create --name pacs --data /data
+CMD ["serve", "--urls", "http://0.0.0.0:8080", "--data", "/data"]
