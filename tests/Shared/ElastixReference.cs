@@ -110,14 +110,16 @@ public static partial class ElastixReference
             """;
     }
 
-    private static string Field(string text, string name, string? fallback = null)
+    /// <summary>The value of a <c>(Name value…)</c> entry of an elastix parameter or result file.</summary>
+    internal static string Field(string text, string name, string? fallback = null)
     {
         var m = Regex.Match(text, @"\(" + name + @"\s+([^)]*)\)");
         if (m.Success) return m.Groups[1].Value;
         return fallback ?? throw new InvalidOperationException($"elastix output lacks {name}");
     }
 
-    private static double[] Numbers(string s) =>
+    /// <summary>Space-separated numbers of an elastix entry.</summary>
+    internal static double[] Numbers(string s) =>
         s.Split(' ', StringSplitOptions.RemoveEmptyEntries).Select(v => double.Parse(v, CultureInfo.InvariantCulture)).ToArray();
 
     private static string Tail(string s) => s.Length > 2000 ? s[^2000..] : s;

@@ -1,6 +1,5 @@
 using System.Diagnostics;
 using System.Globalization;
-using System.Text.RegularExpressions;
 using Serimetry.Engine.Core;
 using Serimetry.Engine.Io.MetaImage;
 using Serimetry.Engine.Registration.Transforms;
@@ -111,12 +110,7 @@ internal static partial class ElastixBSplineRunner
 
         """;
 
-    private static string Field(string text, string name)
-    {
-        var m = Regex.Match(text, @"\(" + name + @"\s+([^)]*)\)");
-        return m.Success ? m.Groups[1].Value : throw new InvalidOperationException($"elastix output lacks {name}");
-    }
+    private static string Field(string text, string name) => ElastixReference.Field(text, name);
 
-    private static double[] Numbers(string s) =>
-        s.Split(' ', StringSplitOptions.RemoveEmptyEntries).Select(v => double.Parse(v, CultureInfo.InvariantCulture)).ToArray();
+    private static double[] Numbers(string s) => ElastixReference.Numbers(s);
 }
