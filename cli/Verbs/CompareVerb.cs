@@ -24,7 +24,7 @@ internal sealed class CompareVerb : IVerb
             new("lesion", "MASK", "baseline lesion outline (NIfTI); default: the exam's own, else whole-gland measures only"),
             new("psa", "YYYY-MM-DD=NG/ML", "a PSA value with its date", Repeatable: true),
             new("profile", "FILE", "repeatability profile (from 'serimetry qa test-retest'); default: published values"),
-            new("followup-preset", "NAME", "registration preset for follow-up to baseline: rigid (default) or affine"),
+            new("followup-preset", "NAME", "follow-up to baseline: rigid (default), affine, or deformable (gland volume from the Jacobian)"),
             new("no-within-exam", null, "trust the scanner geometry between ADC and T2w instead of aligning them"),
             new("allow-different-patients", null, "compare exams whose patient IDs differ"),
             new("threads", "N", "threads to use (default: all cores)"),
@@ -58,8 +58,8 @@ internal sealed class CompareVerb : IVerb
             MaxThreads: args.GetInt("threads", -1, 1, 256),
             PluginFolder: args.Get("plugins"),
             Radiomics: RadiomicsOption(args));
-        if (options.FollowupPreset is not ("rigid" or "affine"))
-            throw new UsageException($"option '--followup-preset' must be rigid or affine, got '{options.FollowupPreset}'");
+        if (options.FollowupPreset is not ("rigid" or "affine" or "deformable"))
+            throw new UsageException($"option '--followup-preset' must be rigid, affine or deformable, got '{options.FollowupPreset}'");
         return new CompareRequest(args.Required("baseline"), args.GetAll("followup"), args.Get("gland"), args.Get("lesion"), psa, profile, options);
     }
 

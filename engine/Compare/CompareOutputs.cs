@@ -25,6 +25,12 @@ public static class CompareOutputs
             v.Exam.Date.ToString("yyyy-MM-dd", System.Globalization.CultureInfo.InvariantCulture), LesionAdc(v))).ToList();
         WriteAtomically(Path.Combine(outDir, "report.html"), HtmlReport.Render(result.Report, pictures, adc));
         TidyCsv.WriteAll(result.Report, outDir);
+        foreach (var v in result.Visits.Where(v => v.ToBaseline?.Deformation is not null))
+        {
+            var name = ComparePipeline.DeformationFileName(v.Index);
+            Registration.TransformFile.Write(Path.Combine(outDir, name), v.ToBaseline!);
+            written.Add(name);
+        }
         if (result.Radiomics.Count > 0) written.AddRange(VisitRadiomics.Write(result.Radiomics, outDir));
         var segs = Reports.Dicom.VisitSegOutputs.WriteWithIds(result.Visits, result.ExamPaths, outDir);
         written.AddRange(segs.Select(s => $"seg-{s.VisitIndex}.dcm"));

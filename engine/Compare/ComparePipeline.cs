@@ -7,6 +7,7 @@ using Serimetry.Engine.Imaging.Morphology;
 using Serimetry.Engine.Io.Nifti;
 using Serimetry.Engine.Measures;
 using Serimetry.Engine.Registration;
+using Serimetry.Engine.Registration.Deformable;
 using Serimetry.Engine.Reports;
 
 namespace Serimetry.Engine.Compare;
@@ -68,7 +69,7 @@ public static class ComparePipeline
         for (int k = 0; k < aligned.Count; k++)
         {
             progress?.Report(new CompareProgress($"measuring visit {k}", (double)(2 * exams.Count + 1 + k) / (total + exams.Count)));
-            inputs.Add(Measure(aligned[k], registry, request.Psa));
+            inputs.Add(Measure(aligned[k], registry, request.Psa, MaskOps.Count(gland0) * t2Grid.VoxelVolumeMm3 / 1000.0));
         }
         if (request.Options.Radiomics is not null) progress?.Report(new CompareProgress("radiomic features", 0.97));
         var radiomics = request.Options.Radiomics is { } rs ? VisitRadiomics.Extract(aligned, rs, problems) : [];
@@ -149,7 +150,8 @@ public static class ComparePipeline
             problems.Add($"visit {index}: the gland carried from baseline falls outside this exam's images");
             flags.Add("gland outside field of view after alignment");
         }
-        return new VisitImages(index, exam, adcOnT2w, adcInFrame, within, toBaseline, gland, lesion, null, flags);
+        double? ratio = toBaseline.Deformation is { } d && loaded.GlandMask is null ? JacobianVolume.JacobianVolumeChange(d, gland0) : null;
+        return new VisitImages(index, exam, adcOnT2w, adcInFrame, within, toBaseline, gland, lesion, null, flags) { GlandVolumeRatio = ratio };
     }
 
     /// <summary>
@@ -208,7 +210,7 @@ public static class ComparePipeline
         return result;
     }
 
-    private static VisitInput Measure(VisitImages v, MeasureRegistry registry, IReadOnlyList<PsaSample> psa)
+    private static VisitInput Measure(VisitImages v, MeasureRegistry registry, IReadOnlyList<PsaSample> psa, double baselineGlandMl)
     {
         var ctx = new VisitContext(v.Index, v.Exam.Date, v.Exam.T2w)
         {
@@ -216,6 +218,7 @@ public static class ComparePipeline
             GlandMask = v.Gland,
             LesionMask = v.Lesion?.Mask ?? v.PropagatedLesion,
             PsaNgPerMl = PsaKinetics.ValueNear(psa, v.Exam.Date),
+            GlandVolumeMlOverride = v.GlandVolumeRatio * baselineGlandMl,
         };
         var values = MeasureRunner.Run(registry.All, ctx);
         float[]? adc = ctx.LesionMask is null ? null : LesionAdcSamples.Collect(ctx, out _)?.Values;
@@ -226,8 +229,12 @@ public static class ComparePipeline
     {
         if (v.ToBaseline is not { } r) return null;
         var flags = r.Warnings.Append($"stop: {r.StopReason}").ToList();
-        return new RegistrationRecord(TransformRecord.FromAffine(r.Transform, r.TransformType), r.MetricBefore, r.MetricAfter, null, flags);
+        var file = r.Deformation is null ? null : DeformationFileName(v.Index);
+        return new RegistrationRecord(TransformRecord.FromAffine(r.Transform, r.TransformType, file), r.MetricBefore, r.MetricAfter, null, flags);
     }
+
+    /// <summary>Where a visit's full (B-spline) transform is written beside change.json.</summary>
+    internal static string DeformationFileName(int visit) => $"transform-visit-{visit}.json";
 
     private static LesionRefitRecord? Refit(VisitImages v)
     {

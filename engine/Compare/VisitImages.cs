@@ -20,4 +20,8 @@ internal sealed record VisitImages(
     Volume<byte>? Gland,
     Volume<byte>? PropagatedLesion,
     LesionRefitResult? Lesion,
-    IReadOnlyList<string> Flags);
+    IReadOnlyList<string> Flags)
+{
+    /// <summary>Gland volume of this visit ÷ baseline, from the Jacobian of a deformable alignment; null otherwise.</summary>
+    public double? GlandVolumeRatio { get; init; }
+}

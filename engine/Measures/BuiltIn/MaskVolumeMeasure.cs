@@ -6,7 +6,7 @@ namespace Serimetry.Engine.Measures.BuiltIn;
 /// <c>lesion.volume</c> / <c>gland.volume</c>: number of non-zero mask voxels × voxel volume, in mL,
 /// counted on the mask's own grid (no resampling). Binary masks: no partial-volume weighting
 /// (docs/measures.md discusses the resulting boundary error). Related IBSI feature: volume (voxel
-/// counting) YEKZ.
+/// counting) YEKZ. For the gland, <see cref="VisitContext.GlandVolumeMlOverride"/> is used when set.
 /// </summary>
 public sealed class MaskVolumeMeasure(MaskKind kind) : BuiltInMeasure
 {
@@ -22,6 +22,10 @@ public sealed class MaskVolumeMeasure(MaskKind kind) : BuiltInMeasure
 
     public override MeasureValue Measure(VisitContext context)
     {
+        // A gland volume from elsewhere (the Jacobian of a deformable alignment, VisitContext) wins over voxel
+        // counting of a propagated outline, which a rigid or affine carry cannot resize.
+        if (kind == MaskKind.Gland && context.GlandVolumeMlOverride is double given)
+            return MeasureValue.Ok(this, given, Provenance(("source", "gland volume given by the caller (deformable alignment Jacobian)")));
         var mask = kind == MaskKind.Lesion ? context.LesionMask : context.GlandMask;
         if (!TryMask(mask, Name, out var m, out var skip)) return skip;
         int n = MaskGrid.Count(m.Voxels);

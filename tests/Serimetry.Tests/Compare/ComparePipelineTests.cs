@@ -4,6 +4,7 @@ using Serimetry.Engine.Core;
 using Serimetry.Engine.Imaging;
 using Serimetry.Engine.Imaging.Morphology;
 using Serimetry.Engine.Phantoms;
+using Serimetry.Engine.Registration;
 using Serimetry.Engine.Repeatability;
 using Xunit;
 
@@ -89,6 +90,31 @@ public sealed class ComparePipelineTests : IDisposable
             n++;
         }
         Assert.True(sum / n <= 0.5, $"mean TRE over the gland {sum / n:F3} mm");
+    }
+
+    [Fact]
+    public void DeformableAlignmentTakesGlandVolumeFromTheJacobian()
+    {
+        // Truth: the phantom's mild deformation is divergence-free (volume-preserving), so the true gland volume
+        // ratio is 1; the deformable preset must report it from the Jacobian within ±5 % (issue 5) and store
+        // the B-spline transform beside change.json.
+        var spec = Spec(51, 1.3) with { DeformationMm = 2.0, DeformationWavelengthMm = 60 };
+        var subject = PhantomGenerator.Generate(spec);
+        var dir = Path.Combine(_dir, "deformed");
+        PhantomWriter.WriteNifti(dir, subject);
+        var request = new CompareRequest(Path.Combine(dir, "visit-0"), [Path.Combine(dir, "visit-1")],
+            Path.Combine(dir, "visit-0", "masks", "gland.nii.gz"), Path.Combine(dir, "visit-0", "masks", "lesion.nii.gz"),
+            [], RepeatabilityProfile.LoadDefault(), new ComparisonOptions(FollowupPreset: "deformable"));
+        var result = ComparePipeline.Run(request);
+        var ratio = result.Visits[1].GlandVolumeRatio;
+        Assert.NotNull(ratio);
+        Assert.InRange(ratio!.Value, 0.95, 1.05);
+        Assert.InRange(Value(result, 1, "gland.volume") / Value(result, 0, "gland.volume"), 0.95, 1.05);
+        Assert.Equal("bspline", result.Report.Visits[1].Registration.Transform.Kind);
+        var outDir = Path.Combine(_dir, "deformed-out");
+        CompareOutputs.Write(result, outDir);
+        var stored = TransformFile.Read(Path.Combine(outDir, result.Report.Visits[1].Registration.Transform.File!));
+        Assert.NotNull(stored.Deformation);
     }
 
     [Fact]
