@@ -37,6 +37,20 @@ public sealed class DicomWriteDataset
         _ => throw new ArgumentException($"{vr.Code()} is not a numeric VR", nameof(vr)),
     };
 
+    /// <summary>
+    /// The Image Pixel module attributes of an unsigned single-sample MONOCHROME2 image (PS3.3 C.7.6.3), with
+    /// High Bit = Bits Stored − 1; Pixel Data itself is added by the caller.
+    /// </summary>
+    public DicomWriteDataset AddMonochromePixelModule(int rows, int columns, int bitsAllocated, int bitsStored) =>
+        Add(DicomTags.SamplesPerPixel, DicomVR.US, 1)
+            .Add(DicomTags.PhotometricInterpretation, DicomVR.CS, "MONOCHROME2")
+            .Add(DicomTags.Rows, DicomVR.US, rows)
+            .Add(DicomTags.Columns, DicomVR.US, columns)
+            .Add(DicomTags.BitsAllocated, DicomVR.US, bitsAllocated)
+            .Add(DicomTags.BitsStored, DicomVR.US, bitsStored)
+            .Add(DicomTags.HighBit, DicomVR.US, bitsStored - 1)
+            .Add(DicomTags.PixelRepresentation, DicomVR.US, 0);
+
     /// <summary>Adds raw little-endian bytes (OB, OW, OF, UN …); an odd length is padded with NUL.</summary>
     public DicomWriteDataset AddBytes(DicomTag tag, DicomVR vr, byte[] bytes) => Put(tag, vr, Pad(bytes, 0));
 
