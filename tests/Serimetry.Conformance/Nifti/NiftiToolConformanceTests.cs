@@ -1,6 +1,7 @@
 using System.Globalization;
 using Serimetry.Engine.Core;
 using Serimetry.Engine.Io.Nifti;
+using Serimetry.Tests.Shared;
 using Xunit;
 
 namespace Serimetry.Conformance.Nifti;
@@ -11,7 +12,7 @@ namespace Serimetry.Conformance.Nifti;
 /// </summary>
 public sealed class NiftiToolConformanceTests : IDisposable
 {
-    private readonly NiftiScratch _scratch = new();
+    private readonly ScratchFolder _scratch = new();
 
     public void Dispose() => _scratch.Dispose();
 

@@ -14,7 +14,7 @@ namespace Serimetry.Conformance.Nifti;
 /// </summary>
 public sealed class ObliqueSeriesNiftiTests : IDisposable
 {
-    private readonly NiftiScratch _scratch = new();
+    private readonly ScratchFolder _scratch = new();
 
     public void Dispose() => _scratch.Dispose();
 

@@ -2,33 +2,20 @@ using System.Buffers.Binary;
 using System.IO.Compression;
 using Serimetry.Engine.Core;
 using Serimetry.Engine.Io.Nifti;
+using Serimetry.Tests.Shared;
 
 namespace Serimetry.Tests.Io.Nifti;
 
 /// <summary>A scratch folder for NIfTI tests, deleted afterwards, plus byte-level helpers.</summary>
 public sealed class NiftiTestFiles : IDisposable
 {
-    public NiftiTestFiles()
-    {
-        Dir = Path.Combine(Path.GetTempPath(), "serimetry-nifti-" + Guid.NewGuid().ToString("N"));
-        Directory.CreateDirectory(Dir);
-    }
+    private readonly ScratchFolder _folder = new("serimetry-nifti-");
 
-    public string Dir { get; }
+    public string Dir => _folder.Dir;
 
-    public string PathOf(string name) => Path.Combine(Dir, name);
+    public string PathOf(string name) => _folder.PathOf(name);
 
-    public void Dispose()
-    {
-        try
-        {
-            Directory.Delete(Dir, recursive: true);
-        }
-        catch (IOException)
-        {
-            // best effort: a leftover temp folder is harmless
-        }
-    }
+    public void Dispose() => _folder.Dispose();
 
     /// <summary>A single-file NIfTI-1 dataset with a header built by the writer and caller-supplied voxel bytes.</summary>
     public string Craft(string name, Geometry g, NiftiDataType type, byte[] voxelBytes, int volumes = 1)
