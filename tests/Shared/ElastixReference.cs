@@ -69,43 +69,52 @@ public static partial class ElastixReference
         return new AffineTransform(r, center + t - r * center);
     }
 
+    /// <summary>
+    /// Parameter-file entries every Serimetry-vs-elastix comparison shares: float images in 3D with direction
+    /// cosines, linear interpolation, recursive pyramids, Mattes mutual information composed with earlier
+    /// transforms, adaptive stochastic gradient descent on fresh random samples each iteration, no result image.
+    /// </summary>
+    internal const string CommonSettings = """
+        (FixedInternalImagePixelType "float")
+        (MovingInternalImagePixelType "float")
+        (FixedImageDimension 3)
+        (MovingImageDimension 3)
+        (UseDirectionCosines "true")
+        (Registration "MultiResolutionRegistration")
+        (Interpolator "LinearInterpolator")
+        (ResampleInterpolator "FinalBSplineInterpolator")
+        (FinalBSplineInterpolationOrder 1)
+        (Resampler "DefaultResampler")
+        (FixedImagePyramid "FixedRecursiveImagePyramid")
+        (MovingImagePyramid "MovingRecursiveImagePyramid")
+        (Optimizer "AdaptiveStochasticGradientDescent")
+        (Metric "AdvancedMattesMutualInformation")
+        (HowToCombineTransforms "Compose")
+        (ErodeMask "false")
+        (NewSamplesEveryIteration "true")
+        (ImageSampler "RandomCoordinate")
+        (CheckNumberOfSamples "false")
+        (DefaultPixelValue 0)
+        (WriteResultImage "false")
+        (WriteIterationInfo "false")
+
+        """;
+
     private static string Parameters(Schedule s)
     {
         var ci = CultureInfo.InvariantCulture;
         string schedule = string.Join(" ", s.ShrinkPerLevel.Select(v => v.ToString(ci)));
         string samples = string.Join(" ", s.SamplesPerLevel.Select(v => v.ToString(ci)));
-        return $"""
-            (FixedInternalImagePixelType "float")
-            (MovingInternalImagePixelType "float")
-            (FixedImageDimension 3)
-            (MovingImageDimension 3)
-            (UseDirectionCosines "true")
-            (Registration "MultiResolutionRegistration")
-            (Interpolator "LinearInterpolator")
-            (ResampleInterpolator "FinalBSplineInterpolator")
-            (FinalBSplineInterpolationOrder 1)
-            (Resampler "DefaultResampler")
-            (FixedImagePyramid "FixedRecursiveImagePyramid")
-            (MovingImagePyramid "MovingRecursiveImagePyramid")
-            (Optimizer "AdaptiveStochasticGradientDescent")
+        return CommonSettings + $"""
             (Transform "EulerTransform")
-            (Metric "AdvancedMattesMutualInformation")
             (AutomaticScalesEstimation "true")
             (AutomaticTransformInitialization "true")
             (AutomaticTransformInitializationMethod "GeometricalCenter")
-            (HowToCombineTransforms "Compose")
             (NumberOfHistogramBins {s.Bins})
-            (ErodeMask "false")
             (NumberOfResolutions {s.SamplesPerLevel.Length})
             (ImagePyramidSchedule {schedule})
             (MaximumNumberOfIterations {s.Iterations})
             (NumberOfSpatialSamples {samples})
-            (NewSamplesEveryIteration "true")
-            (ImageSampler "RandomCoordinate")
-            (CheckNumberOfSamples "false")
-            (DefaultPixelValue 0)
-            (WriteResultImage "false")
-            (WriteIterationInfo "false")
             (ResultImageFormat "mhd")
             """;
     }

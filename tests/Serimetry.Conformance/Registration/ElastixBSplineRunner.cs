@@ -79,34 +79,12 @@ internal static partial class ElastixBSplineRunner
             new Size3((int)size[0], (int)size[1], (int)size[2]), dir, Numbers(Field(text, "TransformParameters")));
     }
 
-    private static string Common(string schedule, int samples) => $"""
-        (FixedInternalImagePixelType "float")
-        (MovingInternalImagePixelType "float")
-        (FixedImageDimension 3)
-        (MovingImageDimension 3)
-        (UseDirectionCosines "true")
-        (Registration "MultiResolutionRegistration")
-        (Interpolator "LinearInterpolator")
-        (ResampleInterpolator "FinalBSplineInterpolator")
-        (FinalBSplineInterpolationOrder 1)
-        (Resampler "DefaultResampler")
-        (FixedImagePyramid "FixedRecursiveImagePyramid")
-        (MovingImagePyramid "MovingRecursiveImagePyramid")
-        (Optimizer "AdaptiveStochasticGradientDescent")
-        (Metric "AdvancedMattesMutualInformation")
-        (HowToCombineTransforms "Compose")
+    private static string Common(string schedule, int samples) => ElastixReference.CommonSettings + $"""
         (NumberOfHistogramBins 32)
-        (ErodeMask "false")
         (NumberOfResolutions {schedule.Split(' ', StringSplitOptions.RemoveEmptyEntries).Length / 3})
         (ImagePyramidSchedule {schedule})
         (MaximumNumberOfIterations 200)
         (NumberOfSpatialSamples {samples})
-        (NewSamplesEveryIteration "true")
-        (ImageSampler "RandomCoordinate")
-        (CheckNumberOfSamples "false")
-        (DefaultPixelValue 0)
-        (WriteResultImage "false")
-        (WriteIterationInfo "false")
 
         """;
 
