@@ -20,7 +20,7 @@ public sealed class RadiomicsBadInputTests
         return (image, mask);
     }
 
-    private static double Get(IReadOnlyList<FeatureValue> f, string code, string agg = IbsiAggregation.Volume3D) =>
+    private static double Get(IReadOnlyList<FeatureValue> f, string code, string agg = IbsiAggregation.None) =>
         f.First(v => v.IbsiCode == code && v.AggregationCode == agg).Value;
 
     [Fact]

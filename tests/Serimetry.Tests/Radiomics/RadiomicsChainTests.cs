@@ -131,4 +131,22 @@ public sealed class RadiomicsChainTests
         Assert.Equal("glcm,Joint maximum,GYBY,IAZD,0.5", lines[1]);
         Assert.Equal("glcm,\"Correlation, odd\",NI2N,IAZD,", lines[2]);
     }
+
+    [Fact]
+    public void Aggregation_code_is_set_for_texture_features_only()
+    {
+        // Src: IBSI reference manual 3.1.1: aggregation methods apply to the texture matrices; the other families
+        // describe the whole 3D ROI (the features.csv contract: aggregationCode empty for them).
+        string[] texture = [FamilyNames.Glcm, FamilyNames.Glrlm, FamilyNames.Glszm, FamilyNames.Gldzm, FamilyNames.Ngtdm, FamilyNames.Ngldm];
+        var (image, mask) = RadiomicsTestData.Phantom();
+        var features = RadiomicsExtractor.Extract(image, mask, RadiomicsTestData.PhantomSettings);
+        var lines = FeatureCsvWriter.ToCsv(features).Split('\n', StringSplitOptions.RemoveEmptyEntries).Skip(1).Select(l => l.Split(',')).ToList();
+        Assert.Equal(features.Count, lines.Count);
+        for (int n = 0; n < features.Count; n++)
+        {
+            bool isTexture = texture.Contains(features[n].Family);
+            Assert.True(isTexture == (lines[n][^2].Length == 4), $"{features[n].Family}/{features[n].Feature}: aggregationCode '{lines[n][^2]}'");
+        }
+        Assert.Contains(features, f => f.Family == FamilyNames.Morphology);
+    }
 }
