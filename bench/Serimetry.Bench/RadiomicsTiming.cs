@@ -17,11 +17,8 @@ internal static class RadiomicsTiming
         var (image, mask) = RadiomicsBenchmarks.Build();
         int roi = mask.Voxels.Count(b => b != 0);
         Console.WriteLine($"ROI {roi:N0} voxels in {image.Size.X}x{image.Size.Y}x{image.Size.Z}; best CPU time of {runs} runs");
-        var families = new (string Name, FeatureFamily[] Families)[]
-        {
-            ("all families", Enum.GetValues<FeatureFamily>()),
-            .. Enum.GetValues<FeatureFamily>().Select(f => (f.ToString(), new[] { f })),
-        };
+        var families = new List<(string Name, FeatureFamily[] Families)> { ("all families", Enum.GetValues<FeatureFamily>()) };
+        families.AddRange(Enum.GetValues<FeatureFamily>().Select(f => (f.ToString(), new[] { f })));
         foreach (int bins in new[] { 32, 128 })
         {
             double all = 0;
