@@ -223,6 +223,23 @@ public sealed class DicomReceiverTests : IDisposable
         return rsp.Status!.Value;
     }
 
+    [Fact]
+    public void Accepted_sop_class_uids_are_the_standards_storage_classes()
+    {
+        // Src: dcmtk's UID table (dcmdump prints the PS3.6 name of a known UID): every accepted UID is Verification
+        // or a "...Storage" SOP class, so no typo slips into the negotiation list.
+        string dir = Path.Combine(_data, "uids");
+        Directory.CreateDirectory(dir);
+        foreach (var uid in StorageSopClasses.Accepted)
+        {
+            string dump = Path.Combine(dir, "d.txt"), file = Path.Combine(dir, "d.dcm");
+            File.WriteAllText(dump, $"(0008,0016) UI [{uid}]\n");
+            DicomTools.Ok("dump2dcm", dump, file);
+            string name = DicomTools.Ok("dcmdump", "-q", "+P", "0008,0016", file).Split(' ', StringSplitOptions.RemoveEmptyEntries)[2];
+            Assert.True(name == "=VerificationSOPClass" || name.EndsWith("Storage", StringComparison.Ordinal), $"{uid}: dcmtk names it {name}");
+        }
+    }
+
     /// <summary>Sends bytes on a fresh connection and returns everything the receiver sends back until it closes.</summary>
     private static async Task<byte[]> RawExchange(int port, byte[] send, Func<NetworkStream, Task>? before = null)
     {
