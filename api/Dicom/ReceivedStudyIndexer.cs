@@ -36,7 +36,14 @@ internal sealed class ReceivedStudyIndexer(DataPaths paths, StudyIntake intake, 
         if (s.CallingAe is not null)
             store.Audit("dicom:" + s.CallingAe, "dicom-association", $"{s.End.ToString().ToLowerInvariant()}; {s.Instances.Count} instances stored; {s.FailedStores} refused");
         foreach (var study in s.Instances.Select(i => i.StudyInstanceUid).Distinct(StringComparer.Ordinal))
-            Index(DirectoryFor(study), who);
+        {
+            try { Index(DirectoryFor(study), who); }
+            catch (Exception e) when (e is not OutOfMemoryException and not InputException)
+            {
+                // Type only: messages of storage errors may quote paths or values. The files stay in received/ for a re-send.
+                log.LogError("received study in {Folder} could not be indexed: {ErrorType}", Path.GetFileName(DirectoryFor(study)), e.GetType().FullName);
+            }
+        }
         return Task.CompletedTask;
     }
 

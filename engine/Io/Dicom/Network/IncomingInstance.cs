@@ -122,7 +122,10 @@ internal sealed partial class IncomingInstance : IAsyncDisposable
     private static void TryDelete(string path)
     {
         try { File.Delete(path); }
-        catch (IOException) { }
+        catch (IOException)
+        {
+            // A scratch file left behind is harmless: it is never indexed (only *.dcm in study folders are).
+        }
     }
 
     /// <summary>Drops an unfinished instance (association ended mid-transfer): nothing is kept.</summary>

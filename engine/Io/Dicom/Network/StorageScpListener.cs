@@ -66,11 +66,17 @@ public sealed class StorageScpListener
         }
         finally
         {
+            if (!busy) _slots.Release(); // before the close, so a peer that saw the close finds the slot free
             client.Dispose();
-            if (!busy) _slots.Release();
             Interlocked.Decrement(ref _open);
         }
-        try { await _handler.AssociationEndedAsync(summary); }
-        catch (Exception e) when (e is not OutOfMemoryException) { /* the host reports its own failures */ }
+        try
+        {
+            await _handler.AssociationEndedAsync(summary);
+        }
+        catch (Exception e) when (e is not OutOfMemoryException)
+        {
+            // The host logs its own failures; one failing study must not stop the listener for the next peer.
+        }
     }
 }

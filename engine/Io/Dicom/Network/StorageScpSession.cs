@@ -178,7 +178,10 @@ internal sealed class StorageScpSession(Stream stream, StorageScpOptions options
         {
             while (await _channel.ReadAsync(options.ArtimTimeout, ct) is not null) { }
         }
-        catch (Exception e) when (e is DicomProtocolException or TimeoutException or IOException) { }
+        catch (Exception e) when (e is DicomProtocolException or TimeoutException or IOException or OperationCanceledException)
+        {
+            // Whatever the peer does now, the association is over: the caller closes the connection.
+        }
     }
 
     private async Task TryAbort(byte reason, CancellationToken ct)
@@ -187,7 +190,10 @@ internal sealed class StorageScpSession(Stream stream, StorageScpOptions options
         {
             await _channel.WriteAsync(new AbortPdu(AbortPdu.SourceServiceProvider, reason), TimeSpan.FromSeconds(5), ct);
         }
-        catch (Exception e) when (e is IOException or TimeoutException or OperationCanceledException or ObjectDisposedException) { }
+        catch (Exception e) when (e is IOException or TimeoutException or OperationCanceledException or ObjectDisposedException)
+        {
+            // The peer is gone or not reading: the A-ABORT is a courtesy (PS3.8 9.1.6), closing the connection ends it anyway.
+        }
     }
 
     private AssociationSummary Summary(AssociationEnd end, string? problem) =>
