@@ -20,7 +20,7 @@ internal sealed class DicomReceiverService(ServiceOptions options, DataPaths pat
     private Task? _loop;
 
     /// <summary>Registers the receiver, its study indexer and the trigger rule.</summary>
-    public static void Add(IServiceCollection services, ServiceOptions options) =>
+    public static void Add(IServiceCollection services) =>
         services.AddSingleton<ComparisonTrigger>().AddSingleton<ReceivedStudyIndexer>().AddHostedService<DicomReceiverService>();
 
     /// <summary>The engine settings from the service options.</summary>

@@ -56,7 +56,7 @@ public static class ServiceHost
         builder.Services.ConfigureHttpJsonOptions(o => o.SerializerOptions.PropertyNamingPolicy = System.Text.Json.JsonNamingPolicy.CamelCase);
         builder.Services.AddOpenApi();
         AddJobs(builder.Services, paths, options);
-        if (options.DicomPort > 0) DicomReceiverService.Add(builder.Services, options);
+        if (options.DicomPort > 0) DicomReceiverService.Add(builder.Services);
         KeyRateLimit.Add(builder.Services, options.RequestsPerMinute);
 
         var app = builder.Build();
