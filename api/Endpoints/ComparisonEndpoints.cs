@@ -27,10 +27,7 @@ internal static class ComparisonEndpoints
     {
         var problem = Validate(body, store);
         if (problem is not null) return Problems.BadRequest(problem);
-        string id = Guid.NewGuid().ToString("N");
-        var patient = store.FindStudy(body.BaselineStudyId!)!.PatientId;
-        store.AddComparison(id, patient, JsonSerializer.Serialize(body, ServiceJson.Options));
-        jobs.Enqueue<ComparisonJob>(j => j.Run(id));
+        string id = ComparisonQueue.Enqueue(store, jobs, body);
         store.Audit(ctx.KeyName(), "submit-comparison", id);
         log.LogInformation("comparison {ComparisonId} queued for baseline study {StudyId}", id, body.BaselineStudyId);
         return TypedResults.Accepted($"/v1/comparisons/{id}", new { comparisonId = id, state = "queued", caution = SoftwareInfo.Caution });

@@ -9,7 +9,7 @@ using Serimetry.Engine.Io.Nifti;
 
 namespace Serimetry.Api.Endpoints;
 
-/// <summary><c>/v1/masks</c>: outline upload (NIfTI-1, .nii or .nii.gz body) for a stored study.</summary>
+/// <summary><c>/v1/masks</c>: outline upload (NIfTI-1, .nii or .nii.gz body) for a stored study, with an optional role (gland or lesion).</summary>
 internal static class MaskEndpoints
 {
     public static void Map(IEndpointRouteBuilder app)
@@ -18,9 +18,10 @@ internal static class MaskEndpoints
         g.MapPost("/", Create).WithName("createMask").Accepts<byte[]>("application/octet-stream");
     }
 
-    private static async Task<IResult> Create(string? studyId, HttpRequest req, MetadataStore store, DataPaths paths)
+    private static async Task<IResult> Create(string? studyId, string? role, HttpRequest req, MetadataStore store, DataPaths paths)
     {
         if (studyId is null || store.FindStudy(studyId) is null) return Problems.NotFound("study", studyId ?? "");
+        if (role is not (null or "gland" or "lesion")) return Problems.BadRequest($"role must be gland or lesion, got '{role}'");
         using var ms = new MemoryStream();
         await req.Body.CopyToAsync(ms, req.HttpContext.RequestAborted);
         var data = ms.ToArray();
@@ -36,8 +37,8 @@ internal static class MaskEndpoints
             catch { File.Delete(tmp); throw; }
             File.Move(tmp, path, overwrite: true);
         }
-        store.AddMask(new MaskRecord(id, studyId, file));
+        store.AddMask(new MaskRecord(id, studyId, file, role));
         store.Audit(req.HttpContext.KeyName(), "submit-mask", id);
-        return Results.Json(new { maskId = id, studyId }, statusCode: 201);
+        return Results.Json(new { maskId = id, studyId, role }, statusCode: 201);
     }
 }

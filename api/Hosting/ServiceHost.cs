@@ -5,6 +5,7 @@ using Microsoft.AspNetCore.Hosting;
 using Microsoft.AspNetCore.Http;
 using Microsoft.AspNetCore.Routing;
 using Microsoft.Extensions.Configuration;
+using Serimetry.Api.Dicom;
 using Serimetry.Api.Endpoints;
 using Serimetry.Api.Intake;
 using Serimetry.Api.Jobs;
@@ -27,6 +28,9 @@ public static class ServiceHost
         ["--data"] = "Serimetry:DataDir", ["--urls"] = "Serimetry:Urls", ["--max-request-bytes"] = "Serimetry:MaxRequestBytes",
         ["--workers"] = "Serimetry:Workers", ["--job-timeout"] = "Serimetry:JobTimeoutSeconds",
         ["--rate-limit"] = "Serimetry:RequestsPerMinute",
+        ["--dicom-port"] = "Serimetry:DicomPort", ["--ae-title"] = "Serimetry:AeTitle", ["--dicom-address"] = "Serimetry:DicomAddress",
+        ["--dicom-check-called-ae"] = "Serimetry:DicomCheckCalledAe", ["--dicom-calling-aes"] = "Serimetry:DicomCallingAeTitles",
+        ["--auto-compare"] = "Serimetry:AutoCompare",
     };
 
     /// <summary>Reads <see cref="ServiceOptions"/> from the configuration sources and <paramref name="args"/>.</summary>
@@ -52,6 +56,7 @@ public static class ServiceHost
         builder.Services.ConfigureHttpJsonOptions(o => o.SerializerOptions.PropertyNamingPolicy = System.Text.Json.JsonNamingPolicy.CamelCase);
         builder.Services.AddOpenApi();
         AddJobs(builder.Services, paths, options);
+        if (options.DicomPort > 0) DicomReceiverService.Add(builder.Services);
         KeyRateLimit.Add(builder.Services, options.RequestsPerMinute);
 
         var app = builder.Build();

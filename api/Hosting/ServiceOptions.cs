@@ -26,4 +26,37 @@ public sealed record ServiceOptions
 
     /// <summary>Requests per minute allowed per API key (0: no limit); above it 429.</summary>
     public int RequestsPerMinute { get; init; } = 1200;
+
+    /// <summary>TCP port of the DICOM receiver (C-ECHO, C-STORE; docs/dicom-network.md); 0 = no receiver.</summary>
+    public int DicomPort { get; init; }
+
+    /// <summary>Address the DICOM receiver listens on (loopback by default; 0.0.0.0 for every interface).</summary>
+    public string DicomAddress { get; init; } = "127.0.0.1";
+
+    /// <summary>Our AE title (1-16 characters).</summary>
+    public string AeTitle { get; init; } = "SERIMETRY";
+
+    /// <summary>Refuse associations addressed to another called AE title.</summary>
+    public bool DicomCheckCalledAe { get; init; } = true;
+
+    /// <summary>Calling AE titles allowed to send, comma-separated; empty = any.</summary>
+    public string DicomCallingAeTitles { get; init; } = "";
+
+    /// <summary>Associations served at the same time; more are rejected (transient) until one ends.</summary>
+    public int DicomMaxAssociations { get; init; } = 8;
+
+    /// <summary>Largest PDU accepted (bytes), announced as our maximum length; a larger PDU ends the association with A-ABORT.</summary>
+    public uint DicomMaxPduBytes { get; init; } = 1 << 20;
+
+    /// <summary>ARTIM timer (seconds): wait for the association request after connect and for the close after release.</summary>
+    public int DicomArtimSeconds { get; init; } = 30;
+
+    /// <summary>Longest silence inside an association (seconds) before it is aborted.</summary>
+    public int DicomIdleSeconds { get; init; } = 300;
+
+    /// <summary>
+    /// Trigger rule: when a study received over DICOM belongs to a patient with an earlier study on file (both with a
+    /// T2w series) and the baseline's gland mask is on file, queue a comparison (docs/dicom-network.md).
+    /// </summary>
+    public bool AutoCompare { get; init; } = true;
 }

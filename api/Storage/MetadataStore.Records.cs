@@ -3,8 +3,8 @@ namespace Serimetry.Api.Storage;
 /// <summary>A stored study: id (content hash), patient and date from its headers, indexed series as JSON.</summary>
 public sealed record StudyRecord(string Id, string? PatientId, string? StudyDate, string Kind, string SeriesJson);
 
-/// <summary>A stored mask file of a study.</summary>
-public sealed record MaskRecord(string Id, string StudyId, string File);
+/// <summary>A stored mask file of a study; <paramref name="Role"/> is gland, lesion or null (not stated at upload).</summary>
+public sealed record MaskRecord(string Id, string StudyId, string File, string? Role = null);
 
 /// <summary>A comparison job's row: state queued/running/done/failed, stage and percent while running, problem when failed.</summary>
 public sealed record ComparisonRecord(string Id, string? PatientId, string RequestJson, string State, string? Stage, double Percent,
@@ -30,13 +30,14 @@ public sealed partial class MetadataStore
 
     /// <summary>Stores a mask (idempotent on its id).</summary>
     public void AddMask(MaskRecord m) =>
-        Execute("INSERT OR IGNORE INTO masks (id, study_id, file, created) VALUES ($id, $s, $f, $c)",
-            ("$id", m.Id), ("$s", m.StudyId), ("$f", m.File), ("$c", Now()));
+        Execute("INSERT OR IGNORE INTO masks (id, study_id, file, created, role) VALUES ($id, $s, $f, $c, $r)",
+            ("$id", m.Id), ("$s", m.StudyId), ("$f", m.File), ("$c", Now()), ("$r", m.Role));
 
     /// <summary>The mask with that id, or null.</summary>
     public MaskRecord? FindMask(string id) =>
-        Query("SELECT id, study_id, file FROM masks WHERE id = $id", r => new MaskRecord(r.GetString(0), r.GetString(1), r.GetString(2)), ("$id", id))
-            .FirstOrDefault();
+        Query("SELECT id, study_id, file, role FROM masks WHERE id = $id", MapMask, ("$id", id)).FirstOrDefault();
+
+    private static MaskRecord MapMask(Microsoft.Data.Sqlite.SqliteDataReader r) => new(r.GetString(0), r.GetString(1), r.GetString(2), Str(r, 3));
 
     /// <summary>Adds a queued comparison.</summary>
     public void AddComparison(string id, string? patientId, string requestJson) =>

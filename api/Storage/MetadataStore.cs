@@ -20,13 +20,22 @@ public sealed partial class MetadataStore
         using var c = Open();
         Exec(c, "PRAGMA journal_mode=WAL;");
         Exec(c, Schema);
+        AddColumnIfMissing(c, "masks", "role", "TEXT");
+    }
+
+    /// <summary>Upgrades a database made by an earlier version (SQLite has no ADD COLUMN IF NOT EXISTS).</summary>
+    private static void AddColumnIfMissing(SqliteConnection c, string table, string column, string type)
+    {
+        using var cmd = Command(c, $"SELECT COUNT(*) FROM pragma_table_info('{table}') WHERE name = $n", [("$n", column)]);
+        if (Convert.ToInt64(cmd.ExecuteScalar(), System.Globalization.CultureInfo.InvariantCulture) == 0)
+            Exec(c, $"ALTER TABLE {table} ADD COLUMN {column} {type}");
     }
 
     private const string Schema = """
         CREATE TABLE IF NOT EXISTS keys (id TEXT PRIMARY KEY, name TEXT NOT NULL, salt BLOB NOT NULL, hash BLOB NOT NULL, created TEXT NOT NULL);
         CREATE TABLE IF NOT EXISTS studies (id TEXT PRIMARY KEY, patient_id TEXT, study_date TEXT, kind TEXT NOT NULL,
             series_json TEXT NOT NULL, created TEXT NOT NULL);
-        CREATE TABLE IF NOT EXISTS masks (id TEXT PRIMARY KEY, study_id TEXT NOT NULL, file TEXT NOT NULL, created TEXT NOT NULL);
+        CREATE TABLE IF NOT EXISTS masks (id TEXT PRIMARY KEY, study_id TEXT NOT NULL, file TEXT NOT NULL, created TEXT NOT NULL, role TEXT);
         CREATE TABLE IF NOT EXISTS comparisons (id TEXT PRIMARY KEY, patient_id TEXT, request_json TEXT NOT NULL, state TEXT NOT NULL,
             stage TEXT, percent REAL NOT NULL DEFAULT 0, problem_json TEXT, runs INTEGER NOT NULL DEFAULT 0,
             created TEXT NOT NULL, finished TEXT);

@@ -6,8 +6,9 @@ namespace Serimetry.Cli.Verbs;
 internal sealed class ServeVerb : IVerb
 {
     public VerbSpec Spec { get; } = new("serve",
-        "Run the HTTP service: study intake, durable comparison jobs, results (docs/service.md)",
-        "[--urls URL] [--data DIR] [--max-request-bytes N] [--workers N] [--job-timeout SECONDS] [--rate-limit N]",
+        "Run the HTTP service (study intake, durable comparison jobs, results; docs/service.md) and optionally the DICOM receiver",
+        "[--urls URL] [--data DIR] [--max-request-bytes N] [--workers N] [--job-timeout SECONDS] [--rate-limit N] " +
+        "[--dicom-port PORT] [--ae-title TITLE] [--dicom-address IP] [--dicom-check-called-ae true|false] [--dicom-calling-aes A,B] [--auto-compare true|false]",
         [
             new("urls", "URL", "listening URLs, ';'-separated (default http://127.0.0.1:8080)"),
             new("data", "DIR", "data folder: databases, stored studies and results (default ./serimetry-data)"),
@@ -15,6 +16,12 @@ internal sealed class ServeVerb : IVerb
             new("workers", "N", "comparison jobs run in parallel on this node (default 1)"),
             new("job-timeout", "SECONDS", "after this a job of a vanished node is run again (default 1800)"),
             new("rate-limit", "N", "requests per minute per API key; 0 = no limit (default 1200)"),
+            new("dicom-port", "PORT", "run the DICOM receiver (C-ECHO, C-STORE) on this TCP port; 0 = off (default 0; docs/dicom-network.md)"),
+            new("ae-title", "TITLE", "AE title of the DICOM receiver (default SERIMETRY)"),
+            new("dicom-address", "IP", "address the DICOM receiver listens on (default 127.0.0.1; 0.0.0.0 for every interface)"),
+            new("dicom-check-called-ae", "BOOL", "refuse associations addressed to another AE title (default true)"),
+            new("dicom-calling-aes", "LIST", "comma-separated calling AE titles allowed to send; empty = any (default)"),
+            new("auto-compare", "BOOL", "queue a comparison when a received study follows an earlier one of the patient with baseline masks on file (default true)"),
         ],
         Details: "Settings also come from appsettings.json (section \"Serimetry\") and environment variables (Serimetry__DataDir, ...).");
 

@@ -42,11 +42,22 @@ public static class DicomPart10Writer
         string sopClass = Uid(dataset, DicomTags.SOPClassUID);
         string sopInstance = Uid(dataset, DicomTags.SOPInstanceUID);
         using var ms = new MemoryStream();
-        ms.Write(new byte[128]);
-        ms.Write("DICM"u8);
-        WriteMeta(ms, sopClass, sopInstance);
+        WriteFilePrefix(ms, sopClass, sopInstance, ExplicitVrLittleEndian);
         WriteDataset(ms, dataset, options);
         return ms.ToArray();
+    }
+
+    /// <summary>
+    /// Writes the start of a Part 10 file: 128-byte preamble, "DICM" and the File Meta Information (PS3.10 7.1)
+    /// naming <paramref name="transferSyntaxUid"/>. The caller appends a data set already encoded in that
+    /// transfer syntax (e.g. one received over the network, PS3.8, whose encoding was negotiated).
+    /// </summary>
+    public static void WriteFilePrefix(Stream s, string sopClassUid, string sopInstanceUid, string transferSyntaxUid)
+    {
+        ArgumentNullException.ThrowIfNull(s);
+        s.Write(new byte[128]);
+        s.Write("DICM"u8);
+        WriteMeta(s, sopClassUid, sopInstanceUid, transferSyntaxUid);
     }
 
     private static string Uid(DicomWriteDataset ds, DicomTag tag)
@@ -56,14 +67,14 @@ public static class DicomPart10Writer
         return Encoding.ASCII.GetString(e.Value).TrimEnd('\0', ' ');
     }
 
-    private static void WriteMeta(Stream s, string sopClass, string sopInstance)
+    private static void WriteMeta(Stream s, string sopClass, string sopInstance, string transferSyntax)
     {
         // PS3.10 7.1 table 7.1-1: group 0002 elements; (0002,0000) holds the byte count after itself.
         var meta = new DicomMetaBuilder();
         meta.Bytes(DicomTags.FileMetaInformationVersion, DicomVR.OB, [0, 1]);
         meta.Text(DicomTags.MediaStorageSOPClassUID, DicomVR.UI, sopClass);
         meta.Text(DicomTags.MediaStorageSOPInstanceUID, DicomVR.UI, sopInstance);
-        meta.Text(DicomTags.TransferSyntaxUID, DicomVR.UI, ExplicitVrLittleEndian);
+        meta.Text(DicomTags.TransferSyntaxUID, DicomVR.UI, transferSyntax);
         meta.Text(DicomTags.ImplementationClassUID, DicomVR.UI, DicomUids.ImplementationClassUid);
         meta.Text(DicomTags.ImplementationVersionName, DicomVR.SH, DicomUids.ImplementationVersionName);
         var body = meta.ToArray();
