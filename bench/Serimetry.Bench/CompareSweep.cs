@@ -19,7 +19,7 @@ internal static class CompareSweep
         int n = args.Length > 0 && int.TryParse(args[0], out var v) ? v : 10;
         var root = Directory.CreateTempSubdirectory("serimetry-sweep-").FullName;
         var inv = CultureInfo.InvariantCulture;
-        Console.WriteLine("seed,trueRatio,measuredRatio,ratioError,dice,glandRatio,adcMedianRatio,seconds");
+        Console.WriteLine("seed,trueRatio,measuredRatio,ratioError,vol0/true,vol1/true,dice,glandRatio,adcMedianRatio,seconds");
         var errors = new List<double>();
         var dices = new List<double>();
         try
@@ -44,7 +44,9 @@ internal static class CompareSweep
                 errors.Add(measured / trueRatio - 1);
                 dices.Add(dice);
                 Console.WriteLine(string.Join(",", seed, trueRatio.ToString("0.000", inv), measured.ToString("0.000", inv),
-                    (measured / trueRatio - 1).ToString("+0.0%;-0.0%", inv), dice.ToString("0.000", inv),
+                    (measured / trueRatio - 1).ToString("+0.0%;-0.0%", inv),
+                    (V(0, "lesion.volume") / subject.Visits[0].Truth.LesionVolumeMl).ToString("0.000", inv),
+                    (V(1, "lesion.volume") / subject.Visits[1].Truth.LesionVolumeMl).ToString("0.000", inv), dice.ToString("0.000", inv),
                     (V(1, "gland.volume") / V(0, "gland.volume")).ToString("0.000", inv),
                     (V(1, "lesion.adc.median") / V(0, "lesion.adc.median")).ToString("0.000", inv), seconds.ToString("0.0", inv)));
             }

@@ -217,6 +217,7 @@ public static class ComparePipeline
             Adc = v.AdcInT2wFrame,
             GlandMask = v.Gland,
             LesionMask = v.Lesion?.Mask ?? v.PropagatedLesion,
+            LesionOccupancy = v.Lesion?.Occupancy,
             PsaNgPerMl = PsaKinetics.ValueNear(psa, v.Exam.Date),
             GlandVolumeMlOverride = v.GlandVolumeRatio * baselineGlandMl,
         };

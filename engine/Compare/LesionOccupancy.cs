@@ -1,0 +1,125 @@
+using Serimetry.Engine.Core;
+
+namespace Serimetry.Engine.Compare;
+
+/// <summary>
+/// Partial-volume occupancy of a lesion outline on the T2w grid (docs/measures.md, "Volumes and partial volume"):
+/// the fraction of each voxel filled by lesion, from a linear mixing model of T2w signal in the boundary band.
+/// Voxels of the outline away from its edge count 1, voxels away from it 0. A band voxel (one whose 26
+/// neighbours are not all on its side of the outline) holds f = (T − T_bg)/(T_lesion − T_bg), clamped to [0, 1]:
+/// T_lesion is the mean T2w of the outline's core (outline voxels outside the band), T_bg the mean T2w of the
+/// background ring (outside voxels just beyond the band) within <see cref="WindowMm"/> of the voxel, so the
+/// background is local (peripheral or transition zone, bias field, texture). T2w is used alone because it is the
+/// channel sampled on this grid; ADC resampled from its coarser grid carries no sub-voxel information here.
+/// </summary>
+internal static class LesionOccupancy
+{
+    /// <summary>Half-width (mm, per index axis, at least one voxel) of the window that gives each band voxel its local background.</summary>
+    internal const double WindowMm = 3.0;
+
+    /// <summary>Lesion and local background must differ by this many SDs of the core signal, else no fraction is estimated.</summary>
+    internal const double MinContrastSds = 3.0;
+
+    /// <summary>Core voxels needed to estimate the pure lesion signal.</summary>
+    internal const int MinCoreVoxels = 8;
+
+    /// <summary>
+    /// The occupancy map (same grid as <paramref name="lesion"/>), or null with a reason when the lesion has too
+    /// small a core or too little T2w contrast against its surroundings (the binary outline then stands).
+    /// Band voxels are considered only inside <paramref name="region"/> (e.g. the dilated gland).
+    /// </summary>
+    public static Volume<float>? Estimate(Volume<float> t2w, Volume<byte> lesion, Volume<byte> region, out string? reason)
+    {
+        t2w.Geometry.RequireCongruent(lesion.Geometry, "T2w and lesion outline");
+        reason = null;
+        var size = lesion.Size;
+        var inside = lesion.Voxels;
+        var grown = StepDilate(inside, size);
+        var shrunkOutside = StepDilate(Complement(inside), size);
+        var ring = StepDilate(grown, size);
+        var t = t2w.Voxels;
+        // Core: outline voxels with no outside 26-neighbour. Ring: outside voxels two steps out, inside the region.
+        double coreSum = 0, coreSq = 0;
+        int core = 0;
+        for (int n = 0; n < inside.Length; n++)
+        {
+            bool isCore = inside[n] != 0 && shrunkOutside[n] == 0 && float.IsFinite(t[n]);
+            if (isCore) { coreSum += t[n]; coreSq += (double)t[n] * t[n]; core++; }
+            ring[n] = (byte)(ring[n] != 0 && grown[n] == 0 && region.Voxels[n] != 0 && float.IsFinite(t[n]) ? 1 : 0);
+        }
+        if (core < MinCoreVoxels) { reason = $"the lesion core has {core} voxels (< {MinCoreVoxels})"; return null; }
+        double lesionMean = coreSum / core;
+        double sd = Math.Sqrt(Math.Max(0, coreSq / core - lesionMean * lesionMean));
+        var occupancy = new Volume<float>(lesion.Geometry);
+        var f = occupancy.Voxels;
+        var window = WindowVoxels(lesion.Geometry.SpacingMm);
+        int estimated = 0, lowContrast = 0;
+        for (int n = 0; n < f.Length; n++)
+        {
+            bool band = inside[n] != 0 ? shrunkOutside[n] != 0 : grown[n] != 0 && region.Voxels[n] != 0;
+            if (!band) { f[n] = inside[n] != 0 ? 1f : 0f; continue; }
+            double background = LocalMean(t, ring, size, n, window);
+            double contrast = lesionMean - background;
+            if (!double.IsFinite(background) || !float.IsFinite(t[n]) || Math.Abs(contrast) < MinContrastSds * sd)
+            {
+                f[n] = inside[n] != 0 ? 1f : 0f;
+                lowContrast++;
+                continue;
+            }
+            f[n] = (float)Math.Clamp((t[n] - background) / contrast, 0, 1);
+            estimated++;
+        }
+        if (estimated == 0) { reason = "lesion and surrounding tissue differ too little on T2w for a partial-volume estimate"; return null; }
+        if (lowContrast > estimated) { reason = $"too little T2w contrast at {lowContrast} of {lowContrast + estimated} boundary voxels"; return null; }
+        return occupancy;
+    }
+
+    private static Size3 WindowVoxels(Vec3 spacing) => new(
+        Math.Max(1, (int)Math.Round(WindowMm / spacing.X)),
+        Math.Max(1, (int)Math.Round(WindowMm / spacing.Y)),
+        Math.Max(1, (int)Math.Round(WindowMm / spacing.Z)));
+
+    /// <summary>Mean of <paramref name="t"/> over ring voxels in the window around voxel n; NaN when none.</summary>
+    private static double LocalMean(float[] t, byte[] ring, Size3 size, int n, Size3 w)
+    {
+        int nx = size.X, nxy = nx * size.Y, i = n % nx, j = n / nx % size.Y, k = n / nxy;
+        double sum = 0;
+        int count = 0;
+        for (int z = Math.Max(0, k - w.Z); z <= Math.Min(size.Z - 1, k + w.Z); z++)
+            for (int y = Math.Max(0, j - w.Y); y <= Math.Min(size.Y - 1, j + w.Y); y++)
+            {
+                int row = y * nx + z * nxy;
+                for (int x = Math.Max(0, i - w.X); x <= Math.Min(nx - 1, i + w.X); x++)
+                    if (ring[row + x] != 0) { sum += t[row + x]; count++; }
+            }
+        return count > 0 ? sum / count : double.NaN;
+    }
+
+    private static byte[] Complement(byte[] mask)
+    {
+        var r = new byte[mask.Length];
+        for (int n = 0; n < r.Length; n++) r[n] = mask[n] == 0 ? (byte)1 : (byte)0;
+        return r;
+    }
+
+    /// <summary>One step of 26-neighbour dilation in index space (separable: ±1 along each axis in turn).</summary>
+    internal static byte[] StepDilate(byte[] mask, Size3 size)
+    {
+        var a = (byte[])mask.Clone();
+        var b = new byte[mask.Length];
+        int nx = size.X, nxy = nx * size.Y;
+        foreach (var (stride, extent) in new[] { (1, size.X), (nx, size.Y), (nxy, size.Z) })
+        {
+            for (int n = 0; n < a.Length; n++)
+            {
+                int pos = n / stride % extent;
+                byte v = a[n];
+                if (pos > 0) v |= a[n - stride];
+                if (pos < extent - 1) v |= a[n + stride];
+                b[n] = v != 0 ? (byte)1 : (byte)0;
+            }
+            (a, b) = (b, a);
+        }
+        return a;
+    }
+}
