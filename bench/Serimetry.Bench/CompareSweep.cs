@@ -41,6 +41,12 @@ internal static class CompareSweep
                 double trueRatio = subject.Visits[1].Truth.LesionVolumeMl / subject.Visits[0].Truth.LesionVolumeMl;
                 double measured = V(1, "lesion.volume") / V(0, "lesion.volume");
                 double dice = MaskOps.Dice(result.Visits[1].Lesion!.Mask, MaskOps.Binarize(subject.Visits[1].LesionMask));
+                foreach (var th in new[] { 0.5, 0.75, 0.9, 1.0 })
+                {
+                    double Med(int k, bool occ) { var vi = result.Visits[k]; var smp = Serimetry.Engine.Measures.LesionAdcSamples.Gather(vi.AdcInT2wFrame, vi.Lesion!.Mask, occ ? vi.Lesion.Occupancy : null, th).Values; return Serimetry.Engine.Measures.SampleStatistics.Percentile(smp, 0.5) + 0 * smp.Length; }
+                    int N(int k) => Serimetry.Engine.Measures.LesionAdcSamples.Gather(result.Visits[k].AdcInT2wFrame, result.Visits[k].Lesion!.Mask, result.Visits[k].Lesion!.Occupancy, th).Values.Length;
+                    Console.Error.WriteLine(string.Create(inv, $"  th {th}: occ {Med(1, true) / Med(0, true):0.000} ({Med(0, true):0} {Med(1, true):0}; n {N(0)} {N(1)})  bin {Med(1, false) / Med(0, false):0.000}"));
+                }
                 errors.Add(measured / trueRatio - 1);
                 dices.Add(dice);
                 Console.WriteLine(string.Join(",", seed, trueRatio.ToString("0.000", inv), measured.ToString("0.000", inv),

@@ -38,15 +38,12 @@ internal static class LesionOccupancy
         var shrunkOutside = StepDilate(Complement(inside), size);
         var ring = StepDilate(grown, size);
         var t = t2w.Voxels;
-        // Core: outline voxels with no outside 26-neighbour. Ring: outside voxels two steps out, inside the region.
-        double coreSum = 0, coreSq = 0;
-        int core = 0;
-        for (int n = 0; n < inside.Length; n++)
-        {
-            bool isCore = inside[n] != 0 && shrunkOutside[n] == 0 && float.IsFinite(t[n]);
-            if (isCore) { coreSum += t[n]; coreSq += (double)t[n] * t[n]; core++; }
+        for (int n = 0; n < ring.Length; n++)
             ring[n] = (byte)(ring[n] != 0 && grown[n] == 0 && region.Voxels[n] != 0 && float.IsFinite(t[n]) ? 1 : 0);
-        }
+        // Core: outline voxels with no outside 26-neighbour; a lesion only two slices thick has none, so then the
+        // voxels with no outside neighbour in their own slice (their through-plane partial volume is small near the axis).
+        var (core, coreSum, coreSq) = CoreStatistics(t, inside, shrunkOutside);
+        if (core < MinCoreVoxels) (core, coreSum, coreSq) = CoreStatistics(t, inside, StepDilate(Complement(inside), size, throughPlane: false));
         if (core < MinCoreVoxels) { reason = $"the lesion core has {core} voxels (< {MinCoreVoxels})"; return null; }
         double lesionMean = coreSum / core;
         double sd = Math.Sqrt(Math.Max(0, coreSq / core - lesionMean * lesionMean));
@@ -95,6 +92,21 @@ internal static class LesionOccupancy
         return count > 0 ? sum / count : double.NaN;
     }
 
+    /// <summary>Count, sum and sum of squares of T2w over outline voxels not flagged in <paramref name="nearOutside"/>.</summary>
+    private static (int Count, double Sum, double SumSq) CoreStatistics(float[] t, byte[] inside, byte[] nearOutside)
+    {
+        int count = 0;
+        double sum = 0, sq = 0;
+        for (int n = 0; n < t.Length; n++)
+        {
+            if (inside[n] == 0 || nearOutside[n] != 0 || !float.IsFinite(t[n])) continue;
+            count++;
+            sum += t[n];
+            sq += (double)t[n] * t[n];
+        }
+        return (count, sum, sq);
+    }
+
     private static byte[] Complement(byte[] mask)
     {
         var r = new byte[mask.Length];
@@ -102,13 +114,16 @@ internal static class LesionOccupancy
         return r;
     }
 
-    /// <summary>One step of 26-neighbour dilation in index space (separable: ±1 along each axis in turn).</summary>
-    internal static byte[] StepDilate(byte[] mask, Size3 size)
+    /// <summary>
+    /// One step of 26-neighbour dilation in index space (separable: ±1 along each axis in turn), or of 8-neighbour
+    /// dilation within each slice when <paramref name="throughPlane"/> is false.
+    /// </summary>
+    internal static byte[] StepDilate(byte[] mask, Size3 size, bool throughPlane = true)
     {
         var a = (byte[])mask.Clone();
         var b = new byte[mask.Length];
         int nx = size.X, nxy = nx * size.Y;
-        foreach (var (stride, extent) in new[] { (1, size.X), (nx, size.Y), (nxy, size.Z) })
+        foreach (var (stride, extent) in throughPlane ? new[] { (1, size.X), (nx, size.Y), (nxy, size.Z) } : new[] { (1, size.X), (nx, size.Y) })
         {
             for (int n = 0; n < a.Length; n++)
             {
