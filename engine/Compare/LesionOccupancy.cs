@@ -31,6 +31,7 @@ internal static class LesionOccupancy
     public static Volume<float>? Estimate(Volume<float> t2w, Volume<byte> lesion, Volume<byte> region, out string? reason)
     {
         t2w.Geometry.RequireCongruent(lesion.Geometry, "T2w and lesion outline");
+        lesion.Geometry.RequireCongruent(region.Geometry, "lesion outline and region");
         reason = null;
         var size = lesion.Size;
         var inside = lesion.Voxels;
@@ -48,27 +49,37 @@ internal static class LesionOccupancy
         double lesionMean = coreSum / core;
         double sd = Math.Sqrt(Math.Max(0, coreSq / core - lesionMean * lesionMean));
         var occupancy = new Volume<float>(lesion.Geometry);
-        var f = occupancy.Voxels;
-        var window = WindowVoxels(lesion.Geometry.SpacingMm);
+        var layers = new Layers(inside, grown, shrunkOutside, ring, region.Voxels, size);
+        var (estimated, lowContrast) = Fill(occupancy.Voxels, t, layers, lesionMean, MinContrastSds * sd, WindowVoxels(lesion.Geometry.SpacingMm));
+        if (estimated == 0) { reason = "lesion and surrounding tissue differ too little on T2w for a partial-volume estimate"; return null; }
+        if (lowContrast > estimated) { reason = $"too little T2w contrast at {lowContrast} of {lowContrast + estimated} boundary voxels"; return null; }
+        return occupancy;
+    }
+
+    /// <summary>The outline and the masks around it, on one grid: inside, one step out, one step in from outside, the background ring, the allowed region.</summary>
+    private readonly record struct Layers(byte[] Inside, byte[] Grown, byte[] NearOutside, byte[] Ring, byte[] Region, Size3 Size);
+
+    /// <summary>Writes every voxel's fraction; returns how many band voxels were estimated and how many kept their binary label for lack of contrast.</summary>
+    private static (int Estimated, int LowContrast) Fill(float[] f, float[] t, Layers m, double lesionMean, double minContrast, Size3 window)
+    {
         int estimated = 0, lowContrast = 0;
         for (int n = 0; n < f.Length; n++)
         {
-            bool band = inside[n] != 0 ? shrunkOutside[n] != 0 : grown[n] != 0 && region.Voxels[n] != 0;
-            if (!band) { f[n] = inside[n] != 0 ? 1f : 0f; continue; }
-            double background = LocalMean(t, ring, size, n, window);
+            bool isInside = m.Inside[n] != 0;
+            bool band = isInside ? m.NearOutside[n] != 0 : m.Grown[n] != 0 && m.Region[n] != 0;
+            if (!band) { f[n] = isInside ? 1f : 0f; continue; }
+            double background = LocalMean(t, m.Ring, m.Size, n, window);
             double contrast = lesionMean - background;
-            if (!double.IsFinite(background) || !float.IsFinite(t[n]) || Math.Abs(contrast) < MinContrastSds * sd)
+            if (!double.IsFinite(background) || !float.IsFinite(t[n]) || Math.Abs(contrast) < minContrast)
             {
-                f[n] = inside[n] != 0 ? 1f : 0f;
+                f[n] = isInside ? 1f : 0f;
                 lowContrast++;
                 continue;
             }
             f[n] = (float)Math.Clamp((t[n] - background) / contrast, 0, 1);
             estimated++;
         }
-        if (estimated == 0) { reason = "lesion and surrounding tissue differ too little on T2w for a partial-volume estimate"; return null; }
-        if (lowContrast > estimated) { reason = $"too little T2w contrast at {lowContrast} of {lowContrast + estimated} boundary voxels"; return null; }
-        return occupancy;
+        return (estimated, lowContrast);
     }
 
     private static Size3 WindowVoxels(Vec3 spacing) => new(

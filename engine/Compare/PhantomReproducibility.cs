@@ -67,7 +67,10 @@ public static class PhantomReproducibility
         var adcOnT2w = Resampler.Resample(visit.Adc, visit.T2w.Geometry, null, Interpolation.Linear, float.NaN);
         var model = LesionRefit.Learn(visit.T2w, adcOnT2w, lesion, gland, settings);
         var refit = LesionRefit.Refit(visit.T2w, adcOnT2w, lesion, gland, model, settings);
-        var context = new VisitContext(0, visit.Date, visit.T2w) { Adc = visit.Adc, GlandMask = gland, LesionMask = refit.Mask };
+        var context = new VisitContext(0, visit.Date, visit.T2w)
+        {
+            Adc = visit.Adc, GlandMask = gland, LesionMask = refit.Mask, LesionOccupancy = refit.Occupancy,
+        };
         return MeasureRunner.Run(MeasureRegistry.CreateDefault().All, context)
             .Where(p => p.Value.Status == MeasureStatus.Ok && p.Value.Value is not null)
             .OrderBy(p => p.Key, StringComparer.Ordinal)
