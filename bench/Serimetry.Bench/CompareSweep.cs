@@ -51,7 +51,7 @@ internal static class CompareSweep
                 glands.Add(V(1, "gland.volume") / V(0, "gland.volume"));
                 adcs.Add(V(1, "lesion.adc.median") / V(0, "lesion.adc.median"));
                 Console.WriteLine(string.Join(",", seed, trueRatio.ToString("0.000", inv), measured.ToString("0.000", inv),
-                    (measured / trueRatio - 1).ToString("+0.0%;-0.0%", inv),
+                    (Math.Round(measured / trueRatio - 1, 3) + 0.0).ToString("+0.0%;-0.0%;0.0%", inv),
                     (V(0, "lesion.volume") / subject.Visits[0].Truth.LesionVolumeMl).ToString("0.000", inv),
                     (V(1, "lesion.volume") / subject.Visits[1].Truth.LesionVolumeMl).ToString("0.000", inv), dice.ToString("0.000", inv),
                     (V(1, "gland.volume") / V(0, "gland.volume")).ToString("0.000", inv),

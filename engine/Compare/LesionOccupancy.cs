@@ -33,14 +33,25 @@ internal static class LesionOccupancy
         t2w.Geometry.RequireCongruent(lesion.Geometry, "T2w and lesion outline");
         lesion.Geometry.RequireCongruent(region.Geometry, "lesion outline and region");
         reason = null;
-        var size = lesion.Size;
-        var inside = lesion.Voxels;
+        // Everything happens within three voxel steps of the outline (band one step, background ring two), so work on
+        // that box only and leave the rest of the grid at 0.
+        if (!Box(lesion.Voxels, lesion.Size, 3, out var lo, out var box)) { reason = "the lesion outline is empty"; return null; }
+        var fractions = EstimateInBox(Crop(t2w.Voxels, lesion.Size, lo, box), Crop(lesion.Voxels, lesion.Size, lo, box),
+            Crop(region.Voxels, lesion.Size, lo, box), box, lesion.Geometry.SpacingMm, out reason);
+        if (fractions is null) return null;
+        var occupancy = new Volume<float>(lesion.Geometry);
+        Paste(fractions, box, occupancy.Voxels, lesion.Size, lo);
+        return occupancy;
+    }
+
+    private static float[]? EstimateInBox(float[] t, byte[] inside, byte[] region, Size3 size, Vec3 spacing, out string? reason)
+    {
+        reason = null;
         var grown = StepDilate(inside, size);
         var shrunkOutside = StepDilate(Complement(inside), size);
         var ring = StepDilate(grown, size);
-        var t = t2w.Voxels;
         for (int n = 0; n < ring.Length; n++)
-            ring[n] = (byte)(ring[n] != 0 && grown[n] == 0 && region.Voxels[n] != 0 && float.IsFinite(t[n]) ? 1 : 0);
+            ring[n] = (byte)(ring[n] != 0 && grown[n] == 0 && region[n] != 0 && float.IsFinite(t[n]) ? 1 : 0);
         // Core: outline voxels with no outside 26-neighbour; a lesion only two slices thick has none, so then the
         // voxels with no outside neighbour in their own slice (their through-plane partial volume is small near the axis).
         var (core, coreSum, coreSq) = CoreStatistics(t, inside, shrunkOutside);
@@ -48,12 +59,44 @@ internal static class LesionOccupancy
         if (core < MinCoreVoxels) { reason = $"the lesion core has {core} voxels (< {MinCoreVoxels})"; return null; }
         double lesionMean = coreSum / core;
         double sd = Math.Sqrt(Math.Max(0, coreSq / core - lesionMean * lesionMean));
-        var occupancy = new Volume<float>(lesion.Geometry);
-        var layers = new Layers(inside, grown, shrunkOutside, ring, region.Voxels, size);
-        var (estimated, lowContrast) = Fill(occupancy.Voxels, t, layers, lesionMean, MinContrastSds * sd, WindowVoxels(lesion.Geometry.SpacingMm));
+        var f = new float[t.Length];
+        var layers = new Layers(inside, grown, shrunkOutside, ring, region, size);
+        var (estimated, lowContrast) = Fill(f, t, layers, lesionMean, MinContrastSds * sd, WindowVoxels(spacing));
         if (estimated == 0) { reason = "lesion and surrounding tissue differ too little on T2w for a partial-volume estimate"; return null; }
         if (lowContrast > estimated) { reason = $"too little T2w contrast at {lowContrast} of {lowContrast + estimated} boundary voxels"; return null; }
-        return occupancy;
+        return f;
+    }
+
+    /// <summary>Index box of the non-zero voxels widened by <paramref name="margin"/> (clamped to the grid); false when there are none.</summary>
+    private static bool Box(byte[] mask, Size3 size, int margin, out VoxelIndex lo, out Size3 box)
+    {
+        int x0 = int.MaxValue, y0 = int.MaxValue, z0 = int.MaxValue, x1 = -1, y1 = -1, z1 = -1;
+        for (int k = 0, n = 0; k < size.Z; k++)
+            for (int j = 0; j < size.Y; j++)
+                for (int i = 0; i < size.X; i++, n++)
+                {
+                    if (mask[n] == 0) continue;
+                    x0 = Math.Min(x0, i); x1 = Math.Max(x1, i); y0 = Math.Min(y0, j); y1 = Math.Max(y1, j); z0 = Math.Min(z0, k); z1 = Math.Max(z1, k);
+                }
+        lo = new VoxelIndex(Math.Max(0, x0 - margin), Math.Max(0, y0 - margin), Math.Max(0, z0 - margin));
+        box = new Size3(Math.Min(size.X - 1, x1 + margin) - lo.I + 1, Math.Min(size.Y - 1, y1 + margin) - lo.J + 1, Math.Min(size.Z - 1, z1 + margin) - lo.K + 1);
+        return x1 >= 0;
+    }
+
+    private static T[] Crop<T>(T[] source, Size3 size, VoxelIndex lo, Size3 box)
+    {
+        var result = new T[box.X * box.Y * box.Z];
+        for (int k = 0; k < box.Z; k++)
+            for (int j = 0; j < box.Y; j++)
+                Array.Copy(source, lo.I + size.X * (lo.J + j + size.Y * (lo.K + k)), result, box.X * (j + box.Y * k), box.X);
+        return result;
+    }
+
+    private static void Paste(float[] source, Size3 box, float[] target, Size3 size, VoxelIndex lo)
+    {
+        for (int k = 0; k < box.Z; k++)
+            for (int j = 0; j < box.Y; j++)
+                Array.Copy(source, box.X * (j + box.Y * k), target, lo.I + size.X * (lo.J + j + size.Y * (lo.K + k)), box.X);
     }
 
     /// <summary>The outline and the masks around it, on one grid: inside, one step out, one step in from outside, the background ring, the allowed region.</summary>

@@ -26,7 +26,7 @@ public sealed record AccuracyCase(string Name, double Growth, double[] TrueVolum
 /// growth, truth.json), each a baseline and one follow-up, compared through the whole pipeline: ten written as
 /// NIfTI exams and four of the same specs (new seeds) written as DICOM series and read by the DICOM exam loader.
 /// Fields of view are cropped around the gland and the ADC is on a 1.5 × 1.5 × 3 mm grid (a 128² clinical matrix)
-/// to keep the set small; the lesions are 0.5-1.4 mL at baseline. Run once and shared by the accuracy tests.
+/// to keep the set small; the lesions are 0.5-1.2 mL at baseline. Run once and shared by the accuracy tests.
 /// </summary>
 public sealed class CompareAccuracyFixture : IDisposable
 {
