@@ -10,7 +10,8 @@ namespace Serimetry.Bench;
 /// <summary>
 /// <c>compare-sweep [N] [--demo-size]</c>: N seeded phantom subjects (2 visits, random growth 1.0-2.0, motion up to
 /// 8 degrees / 10 mm) through the whole comparison; prints, per subject, measured against true lesion-volume
-/// ratio, follow-up Dice against the true lesion, gland and median-ADC ratios (both truly 1), and wall time.
+/// ratio, measured against analytic absolute lesion volume per visit, follow-up Dice against the true lesion, gland and
+/// median-ADC ratios (both truly 1), and wall time; then a summary of each.
 /// </summary>
 internal static class CompareSweep
 {
@@ -19,9 +20,12 @@ internal static class CompareSweep
         int n = args.Length > 0 && int.TryParse(args[0], out var v) ? v : 10;
         var root = Directory.CreateTempSubdirectory("serimetry-sweep-").FullName;
         var inv = CultureInfo.InvariantCulture;
-        Console.WriteLine("seed,trueRatio,measuredRatio,ratioError,dice,glandRatio,adcMedianRatio,seconds");
+        Console.WriteLine("seed,trueRatio,measuredRatio,ratioError,vol0/true,vol1/true,dice,glandRatio,adcMedianRatio,seconds");
         var errors = new List<double>();
         var dices = new List<double>();
+        var absolute = new List<double>();
+        var glands = new List<double>();
+        var adcs = new List<double>();
         try
         {
             for (int s = 0; s < n; s++)
@@ -43,12 +47,19 @@ internal static class CompareSweep
                 double dice = MaskOps.Dice(result.Visits[1].Lesion!.Mask, MaskOps.Binarize(subject.Visits[1].LesionMask));
                 errors.Add(measured / trueRatio - 1);
                 dices.Add(dice);
+                absolute.AddRange([V(0, "lesion.volume") / subject.Visits[0].Truth.LesionVolumeMl, V(1, "lesion.volume") / subject.Visits[1].Truth.LesionVolumeMl]);
+                glands.Add(V(1, "gland.volume") / V(0, "gland.volume"));
+                adcs.Add(V(1, "lesion.adc.median") / V(0, "lesion.adc.median"));
                 Console.WriteLine(string.Join(",", seed, trueRatio.ToString("0.000", inv), measured.ToString("0.000", inv),
-                    (measured / trueRatio - 1).ToString("+0.0%;-0.0%", inv), dice.ToString("0.000", inv),
+                    (Math.Round(measured / trueRatio - 1, 3) + 0.0).ToString("+0.0%;-0.0%;0.0%", inv),
+                    (V(0, "lesion.volume") / subject.Visits[0].Truth.LesionVolumeMl).ToString("0.000", inv),
+                    (V(1, "lesion.volume") / subject.Visits[1].Truth.LesionVolumeMl).ToString("0.000", inv), dice.ToString("0.000", inv),
                     (V(1, "gland.volume") / V(0, "gland.volume")).ToString("0.000", inv),
                     (V(1, "lesion.adc.median") / V(0, "lesion.adc.median")).ToString("0.000", inv), seconds.ToString("0.0", inv)));
             }
-            Console.WriteLine(string.Create(inv, $"volume-ratio error: mean {errors.Average():+0.0%;-0.0%}, worst {errors.MaxBy(Math.Abs):+0.0%;-0.0%}; Dice min {dices.Min():0.000}"));
+            Console.WriteLine(string.Create(inv, $"volume-ratio error: mean {errors.Average():+0.0%;-0.0%}, worst {errors.MaxBy(Math.Abs):+0.0%;-0.0%}; absolute volume / analytic {absolute.Min():0.000}-{absolute.Max():0.000}"));
+            Console.WriteLine(string.Create(inv, $"Dice {dices.Min():0.000}-{dices.Max():0.000}; gland ratio {glands.Min():0.000}-{glands.Max():0.000}"));
+            Console.WriteLine(string.Create(inv, $"median-ADC ratio {adcs.Min():0.000}-{adcs.Max():0.000}, RMS error {Math.Sqrt(adcs.Average(x => (x - 1) * (x - 1))):0.0%}, {adcs.Count(x => Math.Abs(x - 1) <= 0.05)}/{adcs.Count} within ±5 %"));
             return 0;
         }
         finally

@@ -45,7 +45,8 @@ public static class CompareOutputs
     private static IReadOnlyList<double> LesionAdc(VisitImages v)
     {
         var mask = v.Lesion?.Mask ?? v.PropagatedLesion;
-        return mask is null ? [] : Measures.LesionAdcSamples.Gather(v.AdcInT2wFrame, mask).Values.Select(x => (double)x).ToList();
+        return mask is null ? [] : Measures.LesionAdcSamples.Gather(v.AdcInT2wFrame, mask, v.Lesion?.Mask == mask ? v.Lesion.Occupancy : null,
+            Measures.MeasureSettings.Default.AdcMinLesionFraction).Values.Select(x => (double)x).ToList();
     }
 
     private static IEnumerable<ReportPicture> WritePictures(VisitImages v, string outDir)

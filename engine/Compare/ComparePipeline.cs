@@ -221,6 +221,7 @@ public static class ComparePipeline
             Adc = v.AdcInT2wFrame,
             GlandMask = v.Gland,
             LesionMask = v.Lesion?.Mask ?? v.PropagatedLesion,
+            LesionOccupancy = v.Lesion?.Occupancy,
             PsaNgPerMl = PsaKinetics.ValueNear(psa, v.Exam.Date),
             GlandVolumeMlOverride = v.GlandVolumeRatio * baselineGlandMl,
         };
@@ -244,7 +245,8 @@ public static class ComparePipeline
     {
         if (v.Lesion is not { } l || v.PropagatedLesion is not { } p) return null;
         var agreement = MaskAgreement.Compare(l.Mask, p);
-        return new LesionRefitRecord(agreement.Dice, agreement.CentroidShiftMm, l.Note is null ? [] : [l.Note]);
+        string? volume = l.OccupancyNote is { } why ? $"lesion volume by voxel count, no partial-volume estimate: {why}" : null;
+        return new LesionRefitRecord(agreement.Dice, agreement.CentroidShiftMm, new[] { l.Note, volume }.OfType<string>().ToList());
     }
 
     private static Dictionary<string, string> Settings(ComparisonOptions o, VisitRadiomicsResult? radiomics)

@@ -45,7 +45,17 @@ public readonly record struct ChannelPair(double Adc, double T2)
 /// <param name="Mask">The re-fitted lesion on the visit's T2w grid.</param>
 /// <param name="Refitted">False when the propagated outline was kept (reason in <paramref name="Note"/>).</param>
 /// <param name="Note">Why the propagated outline was kept, or null.</param>
-public sealed record LesionRefitResult(Volume<byte> Mask, bool Refitted, string? Note);
+public sealed record LesionRefitResult(Volume<byte> Mask, bool Refitted, string? Note)
+{
+    /// <summary>
+    /// Partial-volume occupancy (0-1 per voxel, <see cref="Mask"/>'s grid) of the re-fitted lesion, or null when it
+    /// could not be estimated (the binary outline then stands; reason in <see cref="OccupancyNote"/>).
+    /// </summary>
+    public Volume<float>? Occupancy { get; init; }
+
+    /// <summary>Why no occupancy was estimated, or null.</summary>
+    public string? OccupancyNote { get; init; }
+}
 
 /// <summary>
 /// Re-fits a lesion outline on a visit's own images. At baseline the lesion's mean ADC and relative T2w, and
@@ -87,7 +97,8 @@ public static class LesionRefit
             return new LesionRefitResult(propagatedLesion, false,
                 $"lesion and surrounding tissue differ by less than {settings.MinSeparationSds} SD; propagated outline kept");
         double t2Ref = Median(t2w, Shell(propagatedLesion, gland, settings.ShellMm));
-        var search = MaskOps.And(MaskOps.Dilate(propagatedLesion, settings.SearchMarginMm), MaskOps.Dilate(gland, 1.0));
+        var region = MaskOps.Dilate(gland, 1.0);
+        var search = MaskOps.And(MaskOps.Dilate(propagatedLesion, settings.SearchMarginMm), region);
         var candidate = propagatedLesion.Like<byte>();
         var tv = t2w.Voxels;
         var av = adcOnT2w.Voxels;
@@ -104,7 +115,8 @@ public static class LesionRefit
         var kept = MaskOps.FillHoles(MaskOps.ComponentsTouching(candidate, propagatedLesion));
         if (MaskOps.Count(kept) == 0)
             return new LesionRefitResult(propagatedLesion, false, "no voxel near the propagated outline looks like the baseline lesion; propagated outline kept");
-        return new LesionRefitResult(kept, true, null);
+        var occupancy = LesionOccupancy.Estimate(t2w, kept, region, out var why);
+        return new LesionRefitResult(kept, true, null) { Occupancy = occupancy, OccupancyNote = why };
     }
 
     /// <summary>

@@ -63,10 +63,10 @@ public static class PhantomReproducibility
         {
             var visit = PhantomGenerator.Generate(single with { NoiseSeed = unchecked((spec.NoiseSeed ?? spec.Seed) + 1000 * (r + 1)) },
                 maxDegreeOfParallelism).Visits[0];
-            var (gland, lesion) = Outlines(visit);
-            foreach (var (m, v) in MeasureVisit(visit, gland, lesion)) rows.Add(new RepeatabilityObservation(spec.SubjectId, m, $"r{r + 1}", v));
+            var (gland, refit) = Outlines(visit);
+            foreach (var (m, v) in MeasureVisit(visit, gland, refit)) rows.Add(new RepeatabilityObservation(spec.SubjectId, m, $"r{r + 1}", v));
             if (radiomics is not null)
-                foreach (var (region, image, values, _) in VisitRadiomics.Regions(visit.T2w, visit.Adc, lesion, gland, radiomics))
+                foreach (var (region, image, values, _) in VisitRadiomics.Regions(visit.T2w, visit.Adc, refit.Mask, gland, radiomics))
                     foreach (var f in values ?? []) features.Add(new TestRetestValue(spec.SubjectId, r, f, region, image));
             progress?.Invoke(r + 1);
         }
@@ -76,20 +76,23 @@ public static class PhantomReproducibility
     }
 
     /// <summary>The phantom's gland outline and its lesion re-fitted as compare re-fits a follow-up lesion.</summary>
-    private static (Volume<byte> Gland, Volume<byte> Lesion) Outlines(PhantomVisit visit)
+    private static (Volume<byte> Gland, LesionRefitResult Lesion) Outlines(PhantomVisit visit)
     {
         var settings = new LesionRefitSettings();
         var gland = MaskOps.Binarize(visit.GlandMask);
         var lesion = MaskOps.Binarize(visit.LesionMask);
         var adcOnT2w = Resampler.Resample(visit.Adc, visit.T2w.Geometry, null, Interpolation.Linear, float.NaN);
         var model = LesionRefit.Learn(visit.T2w, adcOnT2w, lesion, gland, settings);
-        return (gland, LesionRefit.Refit(visit.T2w, adcOnT2w, lesion, gland, model, settings).Mask);
+        return (gland, LesionRefit.Refit(visit.T2w, adcOnT2w, lesion, gland, model, settings));
     }
 
     /// <summary>The visit's measures with status ok, measured as the comparison pipeline measures a visit.</summary>
-    private static IEnumerable<(string Measure, double Value)> MeasureVisit(PhantomVisit visit, Volume<byte> gland, Volume<byte> lesion)
+    private static IEnumerable<(string Measure, double Value)> MeasureVisit(PhantomVisit visit, Volume<byte> gland, LesionRefitResult refit)
     {
-        var context = new VisitContext(0, visit.Date, visit.T2w) { Adc = visit.Adc, GlandMask = gland, LesionMask = lesion };
+        var context = new VisitContext(0, visit.Date, visit.T2w)
+        {
+            Adc = visit.Adc, GlandMask = gland, LesionMask = refit.Mask, LesionOccupancy = refit.Occupancy,
+        };
         return MeasureRunner.Run(MeasureRegistry.CreateDefault().All, context)
             .Where(p => p.Value.Status == MeasureStatus.Ok && p.Value.Value is not null)
             .OrderBy(p => p.Key, StringComparer.Ordinal)

@@ -5,7 +5,9 @@ namespace Serimetry.Engine.Measures;
 /// voxels outside the lesion whose centre lies within this distance of a lesion voxel centre (docs/measures.md).</param>
 /// <param name="MaxBoundaryPointsForDiameter">Safety limit on boundary voxels for the exact all-pairs largest
 /// diameter; above it the measure fails with a clear reason instead of running for minutes.</param>
-public sealed record MeasureSettings(double ShellDistanceMm = 5.0, int MaxBoundaryPointsForDiameter = 60_000)
+/// <param name="AdcMinLesionFraction">An ADC voxel is a lesion sample when the lesion (its partial-volume occupancy,
+/// or the binary mask) fills at least this fraction of it, judged on the finer mask grid (docs/measures.md).</param>
+public sealed record MeasureSettings(double ShellDistanceMm = 5.0, int MaxBoundaryPointsForDiameter = 60_000, double AdcMinLesionFraction = 0.75)
 {
     /// <summary>The defaults documented in docs/measures.md.</summary>
     public static MeasureSettings Default { get; } = new();

@@ -39,6 +39,13 @@ public sealed class VisitContext
     /// <summary>Lesion mask (any non-zero label), or null.</summary>
     public Volume<byte>? LesionMask { get; init; }
 
+    /// <summary>
+    /// Partial-volume occupancy of the lesion (fraction 0-1 of each voxel), on <see cref="LesionMask"/>'s grid, or
+    /// null: <c>lesion.volume</c> then sums it instead of counting voxels, and the lesion ADC samples weigh which ADC
+    /// voxels the lesion fills (docs/measures.md).
+    /// </summary>
+    public Volume<float>? LesionOccupancy { get; init; }
+
     /// <summary>Serum PSA in ng/mL for this visit, or null.</summary>
     public double? PsaNgPerMl { get; init; }
 

@@ -110,10 +110,13 @@ public static class PhantomGenerator
         return new PhantomVisit(k, date, t2, dwi, adc, gland, zones, lesion, t2Acq, dwiAcq, truth);
     }
 
-    /// <summary>The scanner-style ADC map uses the b-values in [200, 1000] s/mm² when at least two exist (PI-RADS v2.1 advice, facts.md §4), else the default selection.</summary>
+    /// <summary>
+    /// The scanner-style ADC map uses the b-values up to 1000 s/mm² when at least two exist (PI-RADS v2.1 advice,
+    /// facts.md §4: lowest b 0-100, highest 800-1000, higher b not used for the ADC), else the default selection.
+    /// </summary>
     private static AdcFitOptions ScannerAdcOptions(PhantomSpec spec, int maxDegree)
     {
-        var bs = spec.BValues.Where(b => b >= 200 && b <= 1000).Distinct().ToList();
+        var bs = spec.BValues.Where(b => b <= 1000).Distinct().ToList();
         return bs.Count >= 2
             ? new AdcFitOptions(AdcFitMethod.WeightedLogLinear, BValues: bs, MaxDegreeOfParallelism: maxDegree)
             : new AdcFitOptions(AdcFitMethod.WeightedLogLinear, MinBValue: 0, MaxDegreeOfParallelism: maxDegree);

@@ -86,15 +86,17 @@ public sealed class RegisterAndCompareVerbTests : IDisposable
         Assert.Contains(report.Changes, c => c.Measure == "lesion.volume" && c.FromVisit == 0 && c.ToVisit == 1 && c.Ci95 is { Length: 2 });
         Assert.Contains("Caution", stdout);
 
-        // radiomics.csv: IBSI voxel-counting volume (YEKZ, mm³) of the lesion region equals lesion.volume (mL) of
-        // the same visit — two independent implementations over the same re-fitted outline.
+        // radiomics.csv: IBSI voxel-counting volume (YEKZ, mm³) of the re-fitted lesion region against lesion.volume
+        // (mL) of the same visit, two independent implementations over the same outline. lesion.volume adds the
+        // partial-volume occupancy of the boundary band (docs/measures.md), which on 3 mm slices restores the thin
+        // cap slices a binary outline misses (about 15-20 % of a small lesion): voxel counting must read 0.7-1.02 of it.
         var rows = File.ReadAllLines(P("out", "radiomics.csv"));
         Assert.Equal("visit,date,region,image,family,feature,ibsiCode,aggregationCode,value,robust", rows[0]);
         foreach (var v in report.Visits)
         {
             var row = rows.Single(r => r.StartsWith($"{v.Index},", StringComparison.Ordinal) && r.Contains(",lesion,t2w,") && r.Contains(",YEKZ,")).Split(',');
             double mm3 = double.Parse(row[^2], System.Globalization.CultureInfo.InvariantCulture);
-            Assert.Equal(v.Values["lesion.volume"].Value!.Value * 1000, mm3, 6);
+            Assert.InRange(mm3 / (v.Values["lesion.volume"].Value!.Value * 1000), 0.70, 1.02);
             Assert.Equal("true", row[^1]);
         }
         Assert.All(rows.Skip(1).Where(r => r.Contains(",GYBY,")), r => Assert.EndsWith(",false", r));
