@@ -28,6 +28,9 @@ public static class SegmentationReader
     {
         ArgumentNullException.ThrowIfNull(grid);
         var file = DicomFile.Read(path);
+        if (file.Dataset.GetStringOrNull(DicomTags.SOPClassUID)?.Trim('\0', ' ') != MaskSopClasses.Segmentation)
+            throw new InputFormatException("the file is not a DICOM Segmentation", Path.GetFileName(path),
+                $"give a SEG object (SOP Class {MaskSopClasses.Segmentation})");
         var frames = SegFrames.Read(file, Path.GetFileName(path), null);
         return [.. Segments(file.Dataset).OrderBy(s => s.Number)
             .Select(s => new SegmentMask(s.Number, s.Label, ToGrid(frames, s.Number, grid, [], Path.GetFileName(path))))];
