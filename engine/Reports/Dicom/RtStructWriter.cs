@@ -12,7 +12,7 @@ public sealed record RoiDefinition(string Name, Volume<byte> Mask, string Interp
 
 /// <summary>
 /// Builds a DICOM RT Structure Set (SOP Class 1.2.840.10008.5.1.4.1.1.481.3; PS3.3 A.19: Patient, General Study,
-/// RT Series, General Equipment, Structure Set, ROI Contour, RT ROI Observations, SOP Common). Each ROI's mask
+/// RT Series, Frame of Reference, General Equipment, Structure Set, ROI Contour, RT ROI Observations, SOP Common). Each ROI's mask
 /// becomes CLOSED_PLANAR contours on every slice that holds it, traced by marching squares
 /// (<see cref="SliceContours"/>) and written in patient coordinates (LPS mm, 0.1 µm steps); filled by the
 /// even-odd rule at voxel centres they give the mask back exactly (docs/masks.md). With a source series each
@@ -56,6 +56,8 @@ public static class RtStructWriter
           .Add(DicomTags.SOPClassUID, DicomVR.UI, RtStructureSetStorage)
           .Add(DicomTags.SOPInstanceUID, DicomVR.UI, uids.Next("sop-instance"))
           .Add(DicomTags.InstanceNumber, DicomVR.IS, 1)
+          .Add(DicomTags.FrameOfReferenceUID, DicomVR.UI, frame)
+          .Add(DicomTags.PositionReferenceIndicator, DicomVR.LO, "")
           .Add(DicomTags.OperatorsName, DicomVR.PN, "")
           .Add(DicomTags.StructureSetLabel, DicomVR.SH, "SERIMETRY")
           .Add(DicomTags.StructureSetName, DicomVR.LO, "Serimetry outlines")
