@@ -20,7 +20,7 @@ internal static class MaskEndpoints
     public static void Map(IEndpointRouteBuilder app)
     {
         var g = app.MapGroup("/v1/masks");
-        g.MapPost("/", Create).WithName("createMask").Accepts<byte[]>("application/octet-stream");
+        g.MapPost("/", Create).WithName("createMask").Accepts<byte[]>("application/octet-stream", "application/dicom");
     }
 
     private static async Task<IResult> Create(string? studyId, string? segment, HttpRequest req, MetadataStore store, DataPaths paths)
