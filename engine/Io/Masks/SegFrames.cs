@@ -98,11 +98,7 @@ internal sealed record SegFrame(int Segment, Vec3 PositionMm, Vec3 Row, Vec3 Col
             between is > 0 ? between : null, thickness is > 0 ? thickness : null);
     }
 
-    private static DicomFunctionalGroups.Found? Find(DicomDataset ds, DicomTag tag, int f)
-    {
-        // Pixel Measures etc. may sit at the top level of older objects; the helper looks there first.
-        return DicomFunctionalGroups.Find(ds, tag, f);
-    }
+    private static DicomFunctionalGroups.Found? Find(DicomDataset ds, DicomTag tag, int f) => DicomFunctionalGroups.Find(ds, tag, f);
 
     private static int? DerivedSlice(DicomDataset ds, int f, IReadOnlyList<string> uids)
     {
