@@ -43,7 +43,6 @@ internal static class MaskEndpoints
             catch { File.Delete(tmp); throw; }
             File.Move(tmp, path, overwrite: true);
         }
-        else MaskFiles.Describe(path, segment);
         store.AddMask(new MaskRecord(id, studyId, segment is null ? file : file + "#" + segment));
         store.Audit(req.HttpContext.KeyName(), "submit-mask", id);
         return Results.Json(new { maskId = id, studyId }, statusCode: 201);

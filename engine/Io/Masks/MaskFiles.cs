@@ -29,10 +29,6 @@ public static class MaskFiles
         };
     }
 
-    /// <summary>Reads a mask given as <c>PATH</c> or <c>PATH#ITEM</c> (<see cref="MaskSource.Parse"/>).</summary>
-    public static Volume<byte> Read(string text, Geometry target, MaskReference? reference = null) =>
-        Read(MaskSource.Parse(text), target, reference).Mask;
-
     /// <summary>
     /// What the file holds, checked without a target grid (format, SOP class, segments / ROIs), and that
     /// <paramref name="item"/> names exactly one of them (or that there is only one when it is null).
@@ -84,6 +80,8 @@ public static class MaskFiles
 
     private static void RequireFile(string path)
     {
+        if (Directory.Exists(path))
+            throw new InputFormatException("a folder is not a mask", path, "give the mask file itself: NIfTI (.nii, .nii.gz), DICOM SEG or RTSTRUCT");
         if (!File.Exists(path))
             throw new InputFormatException("mask file not found", path, "give a NIfTI (.nii, .nii.gz), DICOM SEG or RTSTRUCT file");
     }

@@ -71,7 +71,7 @@ public static class RtStructReader
         List<string> notes)
     {
         var best = new Dictionary<int, (double Distance, double Z, List<double[]> Polygons)>();
-        int off = 0, crossing = 0, partly = 0;
+        int off = 0, crossing = 0, partly = 0, farther = 0;
         foreach (var c in contours)
         {
             int n = c.Length / 3;
@@ -96,9 +96,14 @@ public static class RtStructReader
             if (ContourRasterizer.SelfIntersects(xy) == true) crossing++;
             double distance = Math.Abs(z - k);
             if (!best.TryGetValue(k, out var cur) || distance < cur.Distance - PlaneTolerance)
+            {
+                if (best.ContainsKey(k)) farther += cur.Polygons.Count;
                 best[k] = (distance, z, [xy]);
+            }
             else if (Math.Abs(z - cur.Z) <= PlaneTolerance)
                 cur.Polygons.Add(xy);
+            else
+                farther++;
         }
         if (best.Count == 0)
             throw new InputFormatException($"all {contours.Count} contours of ROI {roi} lie off the image slices", where,
@@ -106,6 +111,7 @@ public static class RtStructReader
         string F(int v) => v.ToString(CultureInfo.InvariantCulture);
         if (off > 0) notes.Add($"ROI {roi}: {F(off)} contour(s) lie beyond the first or last slice and were left out");
         if (partly > 0) notes.Add($"ROI {roi}: {F(partly)} contour(s) reach outside the image and were clipped");
+        if (farther > 0) notes.Add($"ROI {roi}: {F(farther)} contour(s) on planes farther from a slice centre than another plane of that slice were left out");
         if (crossing > 0) notes.Add($"ROI {roi}: {F(crossing)} contour(s) intersect themselves; filled by the even-odd rule");
         return [.. best.OrderBy(b => b.Key).Select(b => (b.Key, b.Value.Polygons))];
     }

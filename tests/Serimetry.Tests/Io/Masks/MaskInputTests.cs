@@ -147,6 +147,39 @@ public sealed class MaskInputTests : IDisposable
     }
 
     [Fact]
+    public void Of_several_contour_planes_on_one_slice_only_the_nearest_is_used()
+    {
+        string path = _tmp.PathOf("planes.dcm");
+        var near = MaskObjects.OnSlice(Grid, 1.1, 1.5, 1.5, 4.5, 1.5, 4.5, 4.5, 1.5, 4.5);
+        var far = MaskObjects.OnSlice(Grid, 0.7, 10.5, 10.5, 13.5, 10.5, 13.5, 13.5, 10.5, 13.5);
+        MaskObjects.WriteRtStruct(path, "1.2.3", ("Thin", [far, near], "CLOSED_PLANAR"));
+        var read = MaskFiles.Read(new MaskSource(path), Grid);
+        // Src: docs/masks.md plane rule — slice 1's centre plane is 0.1 slice from the first contour, 0.3 from the second.
+        Assert.Equal(9, read.Mask.Voxels.Count(v => v != 0));
+        Assert.Equal(1, read.Mask[2, 2, 1]);
+        Assert.Contains(read.Notes, n => n.Contains("farther from a slice centre", StringComparison.Ordinal));
+    }
+
+    [Fact]
+    public void Seg_frames_without_plane_position_are_placed_through_their_source_images()
+    {
+        var m = new Volume<byte>(Grid);
+        m[3, 4, 1] = m[4, 4, 1] = m[7, 2, 3] = 1;
+        var uids = Enumerable.Range(0, Grid.Size.Z).Select(k => $"1.2.3.{k + 1}").ToList();
+        var source = new SegSourceReference("1.2.3.100", MrSeriesWriter.MrImageStorage, uids, "1.2.3.200");
+        var ds = SegmentationWriter.Build(Grid, [new SegmentDefinition("Prostate", DicomCode.AnatomicalStructure, DicomCode.Prostate, "AUTOMATIC", "t", m)],
+            new DicomStudyInfo(null, null, null, null), source);
+        foreach (var frame in ds.Elements.First(e => e.Tag == Engine.Io.Dicom.DicomTags.PerFrameFunctionalGroupsSequence).Items!)
+            frame.Remove(Engine.Io.Dicom.DicomTags.PlanePositionSequence);
+        string path = _tmp.PathOf("no-position.dcm");
+        DicomPart10Writer.Write(path, ds);
+        // Src: PS3.3 C.7.6.16.2.6 — Derivation Image → Source Image names the slice each frame was derived from.
+        Assert.Equal(m.Voxels, MaskFiles.Read(new MaskSource(path), Grid, new MaskReference("1.2.3.200", null, uids)).Mask.Voxels);
+        var e = Assert.Throws<InputFormatException>(() => MaskFiles.Read(new MaskSource(path), Grid));
+        Assert.Contains("Plane Position", e.Message, StringComparison.Ordinal);
+    }
+
+    [Fact]
     public void Rtstruct_writer_contours_read_back_voxel_for_voxel()
     {
         var mask = new Volume<byte>(Grid);
