@@ -1,6 +1,7 @@
 using Serimetry.Engine;
 using Serimetry.Engine.Core;
-using Serimetry.Engine.Io.Nifti;
+using Serimetry.Engine.Io;
+using Serimetry.Engine.Io.Masks;
 using Serimetry.Engine.Radiomics;
 
 namespace Serimetry.Cli.Verbs;
@@ -16,15 +17,14 @@ internal sealed class RadiomicsVerb : IVerb
         "IBSI chapter 1 radiomic features of an image inside a mask, as tidy CSV",
         "--image IMG --mask MASK [--settings FILE] [--label N] --out features.csv",
         [
-            new OptionSpec("image", "IMG", "image (NIfTI .nii/.nii.gz)", Required: true),
-            new OptionSpec("mask", "MASK", "ROI mask on the same grid (NIfTI; non-zero = ROI)", Required: true),
+            new OptionSpec("image", "IMG", "image: NIfTI (.nii/.nii.gz), or a DICOM file, folder or .zip (its T2w series when it holds several)", Required: true),
+            new OptionSpec("mask", "MASK", "ROI: NIfTI on the image grid (non-zero = ROI), DICOM SEG or RTSTRUCT (placed on the image grid); MASK#ITEM picks a segment/ROI/label (docs/masks.md)", Required: true),
             new OptionSpec("settings", "FILE", "processing settings as JSON (default: built-in defaults)"),
-            new OptionSpec("label", "N", "use only voxels with this mask label (1..255)"),
+            new OptionSpec("label", "N", "NIfTI mask: use only voxels with this label (1..255), same as MASK#N"),
             new OptionSpec("out", "FILE", "output CSV", Required: true),
             new OptionSpec("print-settings", null, "print the effective settings as JSON"),
         ],
-        Details: "Reproduce the IBSI digital-phantom check with --settings phantoms/ibsi-digital-phantom.settings.json.\n"
-            + "DICOM input is not wired into this verb yet; convert to NIfTI first.");
+        Details: "Reproduce the IBSI digital-phantom check with --settings phantoms/ibsi-digital-phantom.settings.json.");
 
     public int Run(ParsedArgs args, CliContext ctx)
     {
@@ -36,15 +36,16 @@ internal sealed class RadiomicsVerb : IVerb
             settings = RadiomicsSettingsJson.Parse(File.ReadAllText(settingsPath), settingsPath);
         if (args.Has("print-settings")) ctx.Out.WriteLine(RadiomicsSettingsJson.Serialize(settings));
 
-        var image = NiftiFile.ReadVolume(RequireNifti(imagePath)).Volume;
-        var mask = NiftiFile.ReadMask(RequireNifti(maskPath));
+        var image = ImageFiles.ReadVolume(imagePath);
+        var source = MaskSource.Parse(maskPath);
         if (args.Has("label"))
         {
-            int label = args.GetInt("label", 1, 1, 255);
-            var selected = mask.Like<byte>();
-            for (int n = 0; n < mask.Voxels.Length; n++) selected.Voxels[n] = mask.Voxels[n] == label ? (byte)1 : (byte)0;
-            mask = selected;
+            if (source.Item is not null) throw new UsageException("give the label either as --label N or as MASK#N, not both");
+            source = source with { Item = args.GetInt("label", 1, 1, 255).ToString(System.Globalization.CultureInfo.InvariantCulture) };
         }
+        var read = MaskFiles.Read(source, image.Geometry);
+        foreach (var note in read.Notes) ctx.Err.WriteLine($"mask: {note}");
+        var mask = read.Mask;
         var features = RadiomicsExtractor.Extract(image, mask, settings);
         using (var writer = new StreamWriter(outPath))
             FeatureCsvWriter.Write(writer, features);
@@ -52,13 +53,5 @@ internal sealed class RadiomicsVerb : IVerb
         ctx.Out.WriteLine($"radiomics: {features.Count} feature values written to {outPath} ({undefined} undefined for this ROI, left empty)");
         ctx.Out.WriteLine(SoftwareInfo.Caution);
         return CliHost.ExitOk;
-    }
-
-    private static string RequireNifti(string path)
-    {
-        if (Directory.Exists(path) || path.EndsWith(".dcm", StringComparison.OrdinalIgnoreCase))
-            throw new UnsupportedInputException("DICOM input is not supported by this verb yet", path,
-                "convert the series and mask to NIfTI (.nii or .nii.gz) first");
-        return path;
     }
 }

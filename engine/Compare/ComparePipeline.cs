@@ -4,7 +4,6 @@ using Serimetry.Engine.Core;
 using Serimetry.Engine.Exams;
 using Serimetry.Engine.Imaging;
 using Serimetry.Engine.Imaging.Morphology;
-using Serimetry.Engine.Io.Nifti;
 using Serimetry.Engine.Measures;
 using Serimetry.Engine.Registration;
 using Serimetry.Engine.Registration.Deformable;
@@ -49,8 +48,9 @@ public static class ComparePipeline
         var exams = LoadExams(request);
         var baseline = exams[0];
         var t2Grid = baseline.Exam.T2w.Geometry;
-        var gland0 = OnGrid(request.GlandMask is string g ? NiftiFile.ReadMask(g) : baseline.GlandMask, t2Grid, "baseline gland mask");
-        var lesion0 = OnGrid(request.LesionMask is string l ? NiftiFile.ReadMask(l) : baseline.LesionMask, t2Grid, "baseline lesion mask");
+        var masks = new BaselineMasks(request.BaselineExam, t2Grid);
+        var gland0 = OnGrid(request.GlandMask is string g ? masks.Read(g) : baseline.GlandMask, t2Grid, "baseline gland mask");
+        var lesion0 = OnGrid(request.LesionMask is string l ? masks.Read(l) : baseline.LesionMask, t2Grid, "baseline lesion mask");
         if (gland0 is null)
             throw new InputFormatException("no baseline gland outline was given", "compare",
                 "pass --gland MASK (NIfTI on or overlapping the baseline T2w grid)");

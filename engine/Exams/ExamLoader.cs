@@ -1,6 +1,7 @@
 using System.Globalization;
 using Serimetry.Engine.Core;
 using Serimetry.Engine.Io;
+using Serimetry.Engine.Io.Masks;
 using Serimetry.Engine.Io.Nifti;
 
 namespace Serimetry.Engine.Exams;
@@ -37,13 +38,21 @@ public static class ExamLoader
             : (m.AdcBValues ?? []).Order().ToList();
         var exam = new Exam(label, m.PatientId, m.ParsedDate(manifestPath), m.StudyInstanceUid, t2w, adc, AdcSource.Scanner, bValues,
             Acquisition(m, "t2w"), Acquisition(m, "adc"));
-        var gland = m.Masks?.Gland is string g ? NiftiFile.ReadMask(Resolve(dir, g, manifestPath)) : null;
-        var lesion = m.Masks?.Lesion is string l ? NiftiFile.ReadMask(Resolve(dir, l, manifestPath)) : null;
+        var gland = m.Masks?.Gland is string g ? ReadMask(dir, g, manifestPath, t2w.Geometry) : null;
+        var lesion = m.Masks?.Lesion is string l ? ReadMask(dir, l, manifestPath, t2w.Geometry) : null;
         return new LoadedExam(exam, gland, lesion);
     }
 
     private static AcquisitionInfo Acquisition(ExamManifest m, string key) =>
         m.Acquisition is not null && m.Acquisition.TryGetValue(key, out var a) ? a : new AcquisitionInfo();
+
+    /// <summary>An outline named in exam.json (NIfTI, SEG or RTSTRUCT, optionally PATH#ITEM; docs/masks.md).</summary>
+    private static Volume<byte> ReadMask(string dir, string relative, string manifestPath, Geometry t2Grid)
+    {
+        var source = MaskSource.Parse(Path.Combine(dir, relative));
+        Resolve(dir, Path.GetRelativePath(dir, source.Path), manifestPath);
+        return MaskFiles.Read(source, t2Grid).Mask;
+    }
 
     private static string Resolve(string dir, string relative, string manifestPath)
     {

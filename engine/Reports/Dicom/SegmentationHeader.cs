@@ -36,7 +36,7 @@ internal static class SegmentationHeader
           .Add(DicomTags.Modality, DicomVR.CS, modality)
           .Add(DicomTags.SeriesInstanceUID, DicomVR.UI, uids.Next("series"))
           .Add(DicomTags.SeriesNumber, DicomVR.IS, seriesNumber)
-          .Add(DicomTags.SeriesDescription, DicomVR.LO, modality == "SEG" ? "Serimetry outlines" : "Serimetry measurements")
+          .Add(DicomTags.SeriesDescription, DicomVR.LO, modality switch { "SEG" => "Serimetry outlines", "RTSTRUCT" => "Serimetry contours", _ => "Serimetry measurements" })
           .Add(DicomTags.SeriesDate, DicomVR.DA, date)
           .Add(DicomTags.SeriesTime, DicomVR.TM, time)
           .Add(DicomTags.ContentDate, DicomVR.DA, date)

@@ -15,7 +15,7 @@ namespace Serimetry.Engine.Reports.Dicom;
 public static class SegmentationWriter
 {
     /// <summary>Segmentation Storage SOP Class UID (PS3.4 B.5).</summary>
-    public const string SegmentationStorage = "1.2.840.10008.5.1.4.1.1.66.4";
+    public const string SegmentationStorage = Io.Masks.MaskSopClasses.Segmentation;
 
     /// <summary>Writes the SEG file and returns its identifiers (for references from an SR).</summary>
     public static DicomObjectIds Write(string path, Geometry grid, IReadOnlyList<SegmentDefinition> segments, DicomStudyInfo study,

@@ -2,6 +2,7 @@ using Serimetry.Conformance.Dicom;
 using Serimetry.Engine.Exams;
 using Serimetry.Engine.Io.Dicom;
 using Serimetry.Engine.Io.Dicom.Writing;
+using Serimetry.Engine.Io.Masks;
 using Serimetry.Engine.Reports.Dicom;
 using Xunit;
 using Xunit.Abstractions;

@@ -63,15 +63,17 @@ public sealed class RadiomicsVerbPhantomTests
     }
 
     [Fact]
-    public void Verb_says_how_to_proceed_with_DICOM_input()
+    public void Verb_reads_a_DICOM_series_and_says_a_folder_is_no_mask()
     {
+        // The image (a DICOM series folder) is read; a folder given as the mask gets a clear input error (docs/masks.md).
+        string series = SharedReference.PathOf("dicom", "series-oblique");
         var (rc, stderr) = RunCli(
         [
-            "radiomics", "--image", SharedReference.PathOf("dicom"), "--mask", SharedReference.PathOf("dicom"),
+            "radiomics", "--image", series, "--mask", series,
             "--out", Path.Combine(Path.GetTempPath(), "serimetry-never-written.csv"),
         ]);
         Assert.Equal(3, rc);
-        Assert.Contains("NIfTI", stderr);
+        Assert.Contains("folder", stderr);
     }
 
     // Runs the built serimetry program (copied beside the tests through the project reference) as a process.

@@ -2,6 +2,7 @@ using Serimetry.Engine.Core;
 using Serimetry.Engine.Io;
 using Serimetry.Engine.Io.Dicom.Writing;
 using Serimetry.Engine.Io.Series;
+using Serimetry.Engine.Io.Masks;
 using Serimetry.Engine.Reports.Dicom;
 using Xunit;
 
@@ -84,7 +85,7 @@ public sealed class MrSeriesAndSegRoundTripTests : IDisposable
     }
 
     [Fact]
-    public void Seg_on_another_grid_is_refused()
+    public void Seg_read_onto_a_shifted_or_larger_grid_stays_at_the_same_physical_place()
     {
         var g = Oblique(5, 3, 6);
         var m = new Volume<byte>(g);
@@ -92,9 +93,14 @@ public sealed class MrSeriesAndSegRoundTripTests : IDisposable
         var path = Path.Combine(_dir, "seg.dcm");
         SegmentationWriter.Write(path, g, [new SegmentDefinition("Prostate", DicomCode.AnatomicalStructure, DicomCode.Prostate, "AUTOMATIC", "t", m)],
             new DicomStudyInfo(null, null, null, null), null);
-        var shifted = g.With(originMm: g.OriginMm + new Vec3(0, 0, 1.5));
-        Assert.Throws<GeometryMismatchException>(() => SegmentationReader.Read(path, shifted));
-        Assert.Throws<GeometryMismatchException>(() => SegmentationReader.Read(path, g.With(size: new Size3(6, 3, 6))));
+        // Src: PS3.3 C.7.6.2.1.1 — a voxel is where its Image Position (Patient) puts it, whatever grid reads it.
+        var shifted = g.With(originMm: g.IndexToPhysical(0, 0, 1));
+        var back = SegmentationReader.Read(path, shifted)[0].Mask;
+        Assert.Equal(1, back[1, 1, 0]);
+        Assert.Equal(1, back.Voxels.Count(v => v != 0));
+        var larger = SegmentationReader.Read(path, g.With(size: new Size3(6, 3, 7)))[0].Mask;
+        Assert.Equal(1, larger[1, 1, 1]);
+        Assert.Equal(1, larger.Voxels.Count(v => v != 0));
     }
 
     [Fact]
