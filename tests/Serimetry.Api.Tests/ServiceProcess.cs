@@ -42,13 +42,14 @@ internal sealed class ServiceProcess : IDisposable
         return s;
     }
 
-    /// <summary>Runs <c>serimetry keys create</c> and returns the last line of its output (the key).</summary>
-    public static string CreateKey(string dataDir, string name)
+    /// <summary>Runs <c>serimetry keys create</c> (with store options in <paramref name="extra"/>) and returns the last line of its output (the key).</summary>
+    public static string CreateKey(string dataDir, string name, params string[] extra)
     {
-        using var p = Process.Start(Psi(["keys", "create", "--name", name, "--data", dataDir]))!;
+        using var p = Process.Start(Psi(["keys", "create", "--name", name, "--data", dataDir, .. extra]))!;
+        var errors = p.StandardError.ReadToEndAsync();
         string output = p.StandardOutput.ReadToEnd();
         p.WaitForExit();
-        Assert.Equal(0, p.ExitCode);
+        Assert.True(p.ExitCode == 0, $"keys create failed ({p.ExitCode}): {errors.Result}");
         return output.TrimEnd().Split('\n')[^1].Trim();
     }
 
