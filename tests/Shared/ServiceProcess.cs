@@ -3,13 +3,13 @@ using System.Net;
 using System.Net.Sockets;
 using System.Text;
 
-namespace Serimetry.Api.Tests;
+namespace Serimetry.Tests.Shared;
 
 /// <summary>
-/// A real <c>serimetry serve</c> child process on a free loopback port with its own data folder; stdout and
+/// A real <c>serimetry serve</c> child process (tests and benchmarks) on a free loopback port with its own data folder; stdout and
 /// stderr (the service log) are captured for the PHI checks.
 /// </summary>
-internal sealed class ServiceProcess : IDisposable
+public sealed class ServiceProcess : IDisposable
 {
     private readonly Process _process;
     private readonly StringBuilder _log = new();
@@ -49,7 +49,7 @@ internal sealed class ServiceProcess : IDisposable
         var errors = p.StandardError.ReadToEndAsync();
         string output = p.StandardOutput.ReadToEnd();
         p.WaitForExit();
-        Assert.True(p.ExitCode == 0, $"keys create failed ({p.ExitCode}): {errors.Result}");
+        if (p.ExitCode != 0) throw new InvalidOperationException($"keys create failed ({p.ExitCode}): {errors.Result}");
         return output.TrimEnd().Split('\n')[^1].Trim();
     }
 
