@@ -19,6 +19,12 @@ internal sealed class SqliteDialect(string path) : SqlDialect
     {
         var c = new SqliteConnection(_connectionString);
         c.Open();
+        // SQLite's own busy handler waits for the write lock in millisecond steps; without it a writer that meets a lock
+        // gets SQLITE_BUSY back and the provider retries only after a long sleep (a status poll writes an audit row,
+        // so concurrent polls meet the lock often: seconds of p99 latency in the status-load benchmark).
+        using var busy = c.CreateCommand();
+        busy.CommandText = "PRAGMA busy_timeout = 30000;";
+        busy.ExecuteNonQuery();
         return c;
     }
 

@@ -93,9 +93,9 @@ internal sealed class ServiceDriver : IDisposable
             }
     }
 
-    /// <summary>Starts <paramref name="count"/> nodes on one data folder with <paramref name="options"/>.</summary>
-    public static async Task<ServiceProcess[]> StartNodes(int count, string data, string[] options) =>
-        await Task.WhenAll(Enumerable.Range(0, count).Select(_ => ServiceProcess.Start(data, options)));
+    /// <summary>Starts <paramref name="count"/> nodes on one data folder with <paramref name="options"/> and <paramref name="environment"/>.</summary>
+    public static async Task<ServiceProcess[]> StartNodes(int count, string data, string[] options, IReadOnlyDictionary<string, string>? environment = null) =>
+        await Task.WhenAll(Enumerable.Range(0, count).Select(_ => ServiceProcess.Start(data, options, environment)));
 
     public static string Seconds(TimeSpan t) => t.TotalSeconds.ToString("0.0", System.Globalization.CultureInfo.InvariantCulture);
 

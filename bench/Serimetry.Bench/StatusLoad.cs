@@ -6,9 +6,9 @@ namespace Serimetry.Bench;
 
 /// <summary>
 /// <c>status-load</c>: status polling (<c>GET /v1/comparisons/{id}</c>) under load on one <c>serve</c> node over
-/// loopback, a bounded closed loop of C concurrent clients for D seconds each phase. Reference phase: nothing running
-/// (the polled comparison is done). Loaded phase: comparisons running on the node's workers while the clients poll
-/// them. Reports requests/s, p50, p99 and max latency of each phase and the ratios loaded / reference.
+/// loopback, a bounded closed loop of C concurrent clients for D seconds each phase, every request the status of one
+/// finished comparison (the largest answer: it carries the change vector; each request also writes an audit row).
+/// Reference phase: nothing else running. Loaded phase: the same requests while K comparisons run on the node. A 2-second warm-up precedes the phases. Reports requests/s, p50, p99 and max latency of each phase and the ratios loaded / reference.
 /// Options: --clients C (16), --seconds D (10), --running K (2), --store sqlite|postgres (sqlite; postgres starts a
 /// throwaway cluster).
 /// </summary>
@@ -58,12 +58,13 @@ internal static class StatusLoad
         await driver.Upload(node.BaseUrl);
         string first = await driver.Submit(node.BaseUrl);
         await driver.WaitAll(node.BaseUrl, [first]);
+        await Poll(driver, node.BaseUrl, [first], clients, 2); // warm-up (JIT, connection pools), not reported
         var idle = await Poll(driver, node.BaseUrl, [first], clients, seconds);
         var ids = new List<string>();
         for (int i = 0; i < running; i++) ids.Add(await driver.Submit(node.BaseUrl));
-        // Poll once the first has started, so the phase measures polling beside a running comparison.
+        // Poll once the first has started, so the phase measures polling beside running comparisons.
         while (await driver.State(node.BaseUrl, ids[0]) == "queued") await Task.Delay(100);
-        var busy = await Poll(driver, node.BaseUrl, ids, clients, seconds);
+        var busy = await Poll(driver, node.BaseUrl, [first], clients, seconds);
         Console.WriteLine($"comparison states after the loaded phase: {string.Join(", ", await Task.WhenAll(ids.Select(id => driver.State(node.BaseUrl, id))))}");
         return (idle, busy);
     }

@@ -27,11 +27,15 @@ public sealed class ServiceProcess : IDisposable
     /// <summary>Path of the built CLI (copied beside the tests by the project reference).</summary>
     public static string CliDll => Path.Combine(AppContext.BaseDirectory, "serimetry.dll");
 
-    public static async Task<ServiceProcess> Start(string dataDir, params string[] extra)
+    public static Task<ServiceProcess> Start(string dataDir, params string[] extra) => Start(dataDir, extra, null);
+
+    /// <summary>Starts a node with extra environment variables (e.g. <c>DOTNET_PROCESSOR_COUNT</c> to model a smaller machine).</summary>
+    public static async Task<ServiceProcess> Start(string dataDir, string[] extra, IReadOnlyDictionary<string, string>? environment)
     {
         int port = FreePort();
         string url = $"http://127.0.0.1:{port}";
         var psi = Psi(["serve", "--data", dataDir, "--urls", url, .. extra]);
+        foreach (var (k, v) in environment ?? new Dictionary<string, string>()) psi.Environment[k] = v;
         var p = Process.Start(psi)!;
         var s = new ServiceProcess(p, url);
         p.OutputDataReceived += (_, e) => s.Append(e.Data);
