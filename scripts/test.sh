@@ -14,6 +14,7 @@ command -v nifti_tool >/dev/null 2>&1 || need+=(nifti-bin)
 command -v elastix >/dev/null 2>&1 || need+=(elastix)
 command -v pvrg-jpeg >/dev/null 2>&1 || need+=(pvrg-jpeg)
 [ -x /usr/bin/chromium ] || need+=(chromium)
+ls /usr/lib/postgresql/*/bin/initdb >/dev/null 2>&1 || need+=(postgresql)
 if [ ${#need[@]} -gt 0 ]; then
   sudo_cmd=""; [ "$(id -u)" -ne 0 ] && sudo_cmd="sudo"
   echo "installing Debian packages: ${need[*]}"

@@ -1,4 +1,5 @@
 using Hangfire;
+using Hangfire.PostgreSql;
 using Hangfire.Storage.SQLite;
 using Microsoft.AspNetCore.Builder;
 using Microsoft.AspNetCore.Hosting;
@@ -12,13 +13,14 @@ using Serimetry.Api.Jobs;
 using Serimetry.Api.Security;
 using Serimetry.Api.Storage;
 using Serimetry.Engine;
+using Serimetry.Engine.Core;
 
 namespace Serimetry.Api.Hosting;
 
 /// <summary>
 /// Composes the HTTP service: configuration (appsettings.json, environment variables, command line; section
-/// <c>Serimetry</c>), SQLite metadata, Hangfire with SQLite job storage, API-key middleware, problem details,
-/// and one endpoint group per resource.
+/// <c>Serimetry</c>), the metadata store and Hangfire job storage (both SQLite in the data folder, or both one shared
+/// PostgreSQL database for several nodes), API-key middleware, problem details, and one endpoint group per resource.
 /// </summary>
 public static class ServiceHost
 {
@@ -27,7 +29,7 @@ public static class ServiceHost
     {
         ["--data"] = "Serimetry:DataDir", ["--urls"] = "Serimetry:Urls", ["--max-request-bytes"] = "Serimetry:MaxRequestBytes",
         ["--workers"] = "Serimetry:Workers", ["--job-timeout"] = "Serimetry:JobTimeoutSeconds",
-        ["--rate-limit"] = "Serimetry:RequestsPerMinute",
+        ["--rate-limit"] = "Serimetry:RequestsPerMinute", ["--store"] = "Serimetry:Store", ["--connection"] = "Serimetry:Connection",
         ["--dicom-port"] = "Serimetry:DicomPort", ["--ae-title"] = "Serimetry:AeTitle", ["--dicom-address"] = "Serimetry:DicomAddress",
         ["--dicom-check-called-ae"] = "Serimetry:DicomCheckCalledAe", ["--dicom-calling-aes"] = "Serimetry:DicomCallingAeTitles",
         ["--auto-compare"] = "Serimetry:AutoCompare",
@@ -48,8 +50,10 @@ public static class ServiceHost
         builder.WebHost.UseUrls(options.Urls.Split(';', StringSplitOptions.RemoveEmptyEntries));
         builder.WebHost.ConfigureKestrel(k => k.Limits.MaxRequestBodySize = options.MaxRequestBytes);
         ConfigureLogging(builder.Logging);
+        Validate(options);
         var paths = new DataPaths(options.DataDir);
-        var store = new MetadataStore(paths.MetadataDb);
+        var store = MetadataStore.Open(options, paths);
+        ScratchCleanup.RemoveStale(paths, TimeSpan.FromHours(1));
         builder.Services.AddSingleton(options).AddSingleton(paths).AddSingleton(store)
             .AddSingleton<BlobStore>().AddSingleton<StudyIntake>().AddTransient<ComparisonJob>().AddTransient<CallbackJob>();
         builder.Services.Configure<RouteHandlerOptions>(o => o.ThrowOnBadRequest = true);
@@ -82,23 +86,49 @@ public static class ServiceHost
         logging.AddFilter("Microsoft.AspNetCore.Diagnostics", LogLevel.None);
         logging.AddFilter("Microsoft.AspNetCore.Server.Kestrel", LogLevel.Error);
         logging.AddFilter("Hangfire.Storage.SQLite.ExpirationManager", LogLevel.Warning);
+        logging.AddFilter("Hangfire.PostgreSql.ExpirationManager", LogLevel.Warning);
+    }
+
+    /// <summary>Settings checked before anything is opened (the store checks its own: <see cref="MetadataStore.Open"/>).</summary>
+    private static void Validate(ServiceOptions o)
+    {
+        if (o.Workers < 1) throw new InvalidParameterException($"workers must be at least 1, got {o.Workers}", "Serimetry:Workers", "pass --workers 1 or more");
+        if (o.EffectiveJobTimeoutSeconds < 1)
+            throw new InvalidParameterException($"job timeout must be at least 1 s, got {o.EffectiveJobTimeoutSeconds}", "Serimetry:JobTimeoutSeconds",
+                "pass --job-timeout SECONDS");
     }
 
     private static void AddJobs(IServiceCollection services, DataPaths paths, ServiceOptions options)
     {
-        services.AddHangfire(c => c.SetDataCompatibilityLevel(CompatibilityLevel.Version_180)
-            .UseSimpleAssemblyNameTypeSerializer().UseRecommendedSerializerSettings()
-            .UseSQLiteStorage(paths.JobsDb, new SQLiteStorageOptions
-            {
-                QueuePollInterval = TimeSpan.FromSeconds(1),
-                InvisibilityTimeout = TimeSpan.FromSeconds(options.JobTimeoutSeconds),
-                DistributedLockLifetime = TimeSpan.FromSeconds(30),
-            }));
+        var timeout = TimeSpan.FromSeconds(options.EffectiveJobTimeoutSeconds);
+        services.AddHangfire(c =>
+        {
+            c.SetDataCompatibilityLevel(CompatibilityLevel.Version_180).UseSimpleAssemblyNameTypeSerializer().UseRecommendedSerializerSettings();
+            if (options.Store == "postgres")
+                // Sliding invisibility: a live node renews the fetch time of its running jobs, so a long comparison is never
+                // handed out twice, while a job of a crashed node is fetched again by another node once the timeout passes.
+                c.UsePostgreSqlStorage(b => b.UseNpgsqlConnection(options.Connection), new PostgreSqlStorageOptions
+                {
+                    QueuePollInterval = TimeSpan.FromSeconds(1),
+                    InvisibilityTimeout = timeout,
+                    UseSlidingInvisibilityTimeout = true,
+                    DistributedLockTimeout = TimeSpan.FromSeconds(30),
+                    PrepareSchemaIfNecessary = true,
+                });
+            else
+                c.UseSQLiteStorage(paths.JobsDb, new SQLiteStorageOptions
+                {
+                    QueuePollInterval = TimeSpan.FromSeconds(1),
+                    InvisibilityTimeout = timeout,
+                    DistributedLockLifetime = TimeSpan.FromSeconds(30),
+                });
+        });
         services.AddHangfireServer(o =>
         {
-            o.WorkerCount = Math.Max(1, options.Workers);
+            o.WorkerCount = options.Workers;
             o.SchedulePollingInterval = TimeSpan.FromSeconds(1);
-            o.ServerName = $"serimetry-{Environment.ProcessId}";
+            // Host and process: several nodes (and several nodes per host) tell apart in the job history.
+            o.ServerName = $"serimetry-{Environment.MachineName}-{Environment.ProcessId}";
         });
     }
 

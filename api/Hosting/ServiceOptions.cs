@@ -2,11 +2,14 @@ namespace Serimetry.Api.Hosting;
 
 /// <summary>
 /// Settings of <c>serimetry serve</c>, bound from the usual .NET configuration sources (appsettings.json in the
-/// data folder, <c>SERIMETRY_</c> environment variables, command line) under the section <c>Serimetry</c>.
+/// working folder, <c>Serimetry__</c> environment variables, command line) under the section <c>Serimetry</c>.
 /// </summary>
 public sealed record ServiceOptions
 {
-    /// <summary>Data folder: serimetry.db (metadata), jobs.db (job queue), blobs/, studies/, masks/, comparisons/.</summary>
+    /// <summary>
+    /// Data folder: blobs/, studies/, masks/, comparisons/, incoming/, and with the sqlite store serimetry.db (metadata)
+    /// and jobs.db (job queue). Nodes of one postgres store share it (a network file system with atomic rename).
+    /// </summary>
     public string DataDir { get; init; } = "serimetry-data";
 
     /// <summary>Listening URLs (Kestrel syntax, ';'-separated).</summary>
@@ -19,10 +22,24 @@ public sealed record ServiceOptions
     public int Workers { get; init; } = 1;
 
     /// <summary>
-    /// Seconds after which a job fetched by a node that stopped answering is handed to another worker
-    /// (the job storage's invisibility timeout). Must exceed the longest comparison.
+    /// Seconds after which a job fetched by a node that stopped answering is handed to another worker (the job storage's
+    /// invisibility timeout). On SQLite the timeout is fixed and must exceed the longest comparison (default 1800); on
+    /// PostgreSQL it slides — a live node keeps its jobs by renewing it — so it is only the take-over delay after a
+    /// crash (default 60).
     /// </summary>
-    public int JobTimeoutSeconds { get; init; } = 1800;
+    public int? JobTimeoutSeconds { get; init; }
+
+    /// <summary>The job timeout in force: <see cref="JobTimeoutSeconds"/> or the default of the store.</summary>
+    public int EffectiveJobTimeoutSeconds => JobTimeoutSeconds ?? (Store == "postgres" ? 60 : 1800);
+
+    /// <summary>
+    /// Where metadata and the job queue live: <c>sqlite</c> (embedded default, two files in the data folder, one node) or
+    /// <c>postgres</c> (one database shared by several nodes, which also share <see cref="DataDir"/>).
+    /// </summary>
+    public string Store { get; init; } = "sqlite";
+
+    /// <summary>Npgsql connection string of the postgres store (<c>Host=…;Port=…;Database=…;Username=…;Password=…</c>).</summary>
+    public string? Connection { get; init; }
 
     /// <summary>Requests per minute allowed per API key (0: no limit); above it 429.</summary>
     public int RequestsPerMinute { get; init; } = 1200;

@@ -24,8 +24,14 @@ public sealed class StudyIntake(DataPaths paths, BlobStore blobs, MetadataStore 
         var hashed = files.Select(f => (f.Name, Hash: blobs.Put(f.Data))).OrderBy(f => f.Name, StringComparer.Ordinal).ToList();
         string id = StudyId(hashed);
         if (store.FindStudy(id) is { } existing) return existing;
-        string dir = Materialise(id, hashed);
-        return store.AddStudy(Index(id, dir));
+        var (dir, created) = Materialise(id, hashed);
+        try { return store.AddStudy(Index(id, dir)); }
+        catch (InputException) when (created)
+        {
+            // Unusable upload: the folder made for it goes (the blobs stay: content-addressed, shared, harmless).
+            DeleteQuietly(dir);
+            throw;
+        }
     }
 
     private static string StudyId(IEnumerable<(string Name, string Hash)> files)
@@ -35,22 +41,34 @@ public sealed class StudyIntake(DataPaths paths, BlobStore blobs, MetadataStore 
         return Convert.ToHexStringLower(SHA256.HashData(Encoding.UTF8.GetBytes(sb.ToString())))[..32];
     }
 
-    private string Materialise(string id, IReadOnlyList<(string Name, string Hash)> files)
+    /// <summary>The study folder at <c>studies/&lt;id&gt;</c>, built in scratch space and renamed into place; true when this call made it.</summary>
+    private (string Dir, bool Created) Materialise(string id, IReadOnlyList<(string Name, string Hash)> files)
     {
         string final = Path.Combine(paths.Studies, id);
-        if (Directory.Exists(final)) return final;
+        if (Directory.Exists(final)) return (final, false);
         string tmp = Path.Combine(paths.Incoming, "study-" + Guid.NewGuid().ToString("N"));
-        foreach (var (name, hash) in files)
+        try
         {
-            string target = Path.GetFullPath(Path.Combine(tmp, name));
-            if (!target.StartsWith(tmp + Path.DirectorySeparatorChar, StringComparison.Ordinal))
-                throw new InputFormatException($"file name '{name}' points outside the study (path traversal)", "request body", "use relative names");
-            Directory.CreateDirectory(Path.GetDirectoryName(target)!);
-            File.Copy(blobs.PathOf(hash), target);
+            foreach (var (name, hash) in files)
+            {
+                string target = Path.GetFullPath(Path.Combine(tmp, name));
+                if (!target.StartsWith(tmp + Path.DirectorySeparatorChar, StringComparison.Ordinal))
+                    throw new InputFormatException($"file name '{name}' points outside the study (path traversal)", "request body", "use relative names");
+                Directory.CreateDirectory(Path.GetDirectoryName(target)!);
+                File.Copy(blobs.PathOf(hash), target);
+            }
+            // rename(2) of a folder onto an existing non-empty one fails: another node materialised the same files first.
+            Directory.Move(tmp, final);
+            return (final, true);
         }
-        try { Directory.Move(tmp, final); }
-        catch (IOException) when (Directory.Exists(final)) { Directory.Delete(tmp, recursive: true); }
-        return final;
+        catch (IOException) when (Directory.Exists(final)) { return (final, false); }
+        finally { DeleteQuietly(tmp); }
+    }
+
+    private static void DeleteQuietly(string dir)
+    {
+        try { if (Directory.Exists(dir)) Directory.Delete(dir, recursive: true); }
+        catch (IOException) { } // in use elsewhere: ScratchCleanup removes it later
     }
 
     /// <summary>DICOM DA (YYYYMMDD, PS3.5 §6.2) as ISO 8601 yyyy-MM-dd, like NIfTI exam dates; other text unchanged.</summary>

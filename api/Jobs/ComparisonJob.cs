@@ -26,7 +26,8 @@ public sealed class ComparisonJob(DataPaths paths, MetadataStore store, IBackgro
         var rec = store.FindComparison(comparisonId);
         if (rec is null || rec.State is "done" or "failed") return;
         string final = Path.Combine(paths.Comparisons, comparisonId);
-        if (File.Exists(Path.Combine(final, "change.json"))) { store.FinishComparison(comparisonId, "done", null); return; }
+        // An earlier attempt renamed its result into place but died before recording it: record it, compute nothing.
+        if (File.Exists(Path.Combine(final, "change.json"))) { Complete(comparisonId, "done", null); return; }
         if (!store.StartComparison(comparisonId)) return;
         RemoveLeftovers(comparisonId);
         log.LogInformation("comparison {ComparisonId} started (attempt {Attempt})", comparisonId, rec.Runs + 1);
@@ -50,22 +51,30 @@ public sealed class ComparisonJob(DataPaths paths, MetadataStore store, IBackgro
             store.Progress(comparisonId, "writing outputs", 99);
             string tmp = Path.Combine(paths.Incoming, $"cmp-{comparisonId}-{Guid.NewGuid():N}");
             CompareOutputs.Write(result, tmp);
+            // One rename publishes the whole result (readers see all files or none); when another attempt published
+            // first, rename(2) onto its non-empty folder fails and this attempt's copy is dropped: one result, never two.
             try { Directory.Move(tmp, final); }
             catch (IOException) when (Directory.Exists(final)) { Directory.Delete(tmp, recursive: true); }
-            store.FinishComparison(comparisonId, "done", null);
-            log.LogInformation("comparison {ComparisonId} done", comparisonId);
+            Complete(comparisonId, "done", null);
         }
         catch (InputException e)
         {
-            store.FinishComparison(comparisonId, "failed", Problems.FromInput(e).ToJsonString());
+            Complete(comparisonId, "failed", ServiceTerms.Problem(e).ToJsonString());
             log.LogWarning("comparison {ComparisonId} failed: input problem of kind {Kind}", comparisonId, e.Kind);
         }
         catch (Exception e) when (e is not OutOfMemoryException)
         {
-            store.FinishComparison(comparisonId, "failed",
+            Complete(comparisonId, "failed",
                 Problems.Document(500, "internal", "Comparison failed", "the engine failed; the service log has the error type").ToJsonString());
             log.LogError("comparison {ComparisonId} failed with {ErrorType}", comparisonId, e.GetType().FullName);
         }
+    }
+
+    /// <summary>Records the end state once; a second attempt that finds it ended leaves it as it is.</summary>
+    private void Complete(string comparisonId, string state, string? problemJson)
+    {
+        if (store.FinishComparison(comparisonId, state, problemJson)) log.LogInformation("comparison {ComparisonId} {State}", comparisonId, state);
+        else log.LogInformation("comparison {ComparisonId} had already ended; this attempt changes nothing", comparisonId);
     }
 
     /// <summary>Deletes scratch folders of earlier attempts (a re-run means their node is gone).</summary>
@@ -74,7 +83,7 @@ public sealed class ComparisonJob(DataPaths paths, MetadataStore store, IBackgro
         foreach (var d in Directory.GetDirectories(paths.Incoming, $"cmp-{comparisonId}-*"))
         {
             try { Directory.Delete(d, recursive: true); }
-            catch (IOException) { }
+            catch (IOException) { } // still in use: ScratchCleanup removes it later
         }
     }
 

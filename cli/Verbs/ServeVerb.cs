@@ -7,14 +7,16 @@ internal sealed class ServeVerb : IVerb
 {
     public VerbSpec Spec { get; } = new("serve",
         "Run the HTTP service (study intake, durable comparison jobs, results; docs/service.md) and optionally the DICOM receiver",
-        "[--urls URL] [--data DIR] [--max-request-bytes N] [--workers N] [--job-timeout SECONDS] [--rate-limit N] " +
+        "[--urls URL] [--data DIR] [--store sqlite|postgres --connection CONN] [--max-request-bytes N] [--workers N] [--job-timeout SECONDS] [--rate-limit N] " +
         "[--dicom-port PORT] [--ae-title TITLE] [--dicom-address IP] [--dicom-check-called-ae true|false] [--dicom-calling-aes A,B] [--auto-compare true|false]",
         [
             new("urls", "URL", "listening URLs, ';'-separated (default http://127.0.0.1:8080)"),
             new("data", "DIR", "data folder: databases, stored studies and results (default ./serimetry-data)"),
+            new("store", "KIND", "sqlite (default: one node, databases in the data folder) or postgres (several nodes on one database)"),
+            new("connection", "CONN", "PostgreSQL connection string (Host=...;Port=...;Database=...;Username=...;Password=...)"),
             new("max-request-bytes", "N", "largest upload accepted; larger ones get 413 (default 2 GiB)"),
             new("workers", "N", "comparison jobs run in parallel on this node (default 1)"),
-            new("job-timeout", "SECONDS", "after this a job of a vanished node is run again (default 1800)"),
+            new("job-timeout", "SECONDS", "after this a job of a vanished node is run again (default 1800 on sqlite, 60 on postgres)"),
             new("rate-limit", "N", "requests per minute per API key; 0 = no limit (default 1200)"),
             new("dicom-port", "PORT", "run the DICOM receiver (C-ECHO, C-STORE) on this TCP port; 0 = off (default 0; docs/dicom-network.md)"),
             new("ae-title", "TITLE", "AE title of the DICOM receiver (default SERIMETRY)"),
@@ -23,7 +25,7 @@ internal sealed class ServeVerb : IVerb
             new("dicom-calling-aes", "LIST", "comma-separated calling AE titles allowed to send; empty = any (default)"),
             new("auto-compare", "BOOL", "queue a comparison when a received study follows an earlier one of the patient with baseline masks on file (default true)"),
         ],
-        Details: "Settings also come from appsettings.json (section \"Serimetry\") and environment variables (Serimetry__DataDir, ...).");
+        Details: "Settings also come from appsettings.json (section \"Serimetry\") and environment variables (Serimetry__DataDir, Serimetry__Connection, ...).");
 
     public int Run(ParsedArgs args, CliContext ctx)
     {

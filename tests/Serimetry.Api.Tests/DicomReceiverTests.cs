@@ -93,7 +93,8 @@ public sealed class DicomReceiverTests : IDisposable
 
         service.Kill();
         // Audit: each association with the calling AE title and the instance count.
-        var audit = new MetadataStore(Path.Combine(_data, "serimetry.db")).AuditLog();
+        using var store = MetadataStore.Sqlite(Path.Combine(_data, "serimetry.db"));
+        var audit = store.AuditLog();
         Assert.Contains(audit, a => a.KeyName == "dicom:STORESCU" && a.Action == "dicom-association" && a.Resource.Contains($"{sent.Length} instances stored"));
         Assert.Contains(audit, a => a.KeyName == "dicom-rule" && a.Action == "submit-comparison");
         // No PHI in the log: Patient ID and Patient's Name as dcmdump reads them.

@@ -1,1 +1,2 @@
+global using Serimetry.Tests.Shared;
 global using Xunit;

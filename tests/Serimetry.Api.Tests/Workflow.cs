@@ -6,7 +6,14 @@ namespace Serimetry.Api.Tests;
 /// <summary>The integrator's workflow: upload both phantom exams and the baseline outlines, submit a comparison.</summary>
 internal static class Workflow
 {
-    public static async Task<string> SubmitPhantomComparison(ApiClient api, string? callbackUrl = null)
+    /// <summary>Study and mask ids of the uploaded phantom (both visits, baseline gland and lesion outlines).</summary>
+    public sealed record PhantomIds(string Baseline, string Followup, string Gland, string Lesion);
+
+    public static async Task<string> SubmitPhantomComparison(ApiClient api, string? callbackUrl = null) =>
+        await Submit(api, await UploadPhantom(api), callbackUrl);
+
+    /// <summary>Uploads both phantom visits and the baseline outlines (idempotent: the same ids every time).</summary>
+    public static async Task<PhantomIds> UploadPhantom(ApiClient api)
     {
         var baseline = await api.Expect(HttpStatusCode.Created, HttpMethod.Post, "/v1/studies", ApiClient.Bytes(PhantomStudies.VisitZip(0), "application/zip"));
         var followup = await api.Expect(HttpStatusCode.Created, HttpMethod.Post, "/v1/studies", ApiClient.Bytes(PhantomStudies.VisitZip(1), "application/zip"));
@@ -15,16 +22,23 @@ internal static class Workflow
             ApiClient.Bytes(PhantomStudies.BaselineMask("gland"), "application/octet-stream"));
         var lesion = await api.Expect(HttpStatusCode.Created, HttpMethod.Post, $"/v1/masks?studyId={b}",
             ApiClient.Bytes(PhantomStudies.BaselineMask("lesion"), "application/octet-stream"));
+        return new PhantomIds(b, f, (string)gland["maskId"]!, (string)lesion["maskId"]!);
+    }
+
+    /// <summary>Submits a comparison of the uploaded phantom (202 + Location checked) and returns its id.</summary>
+    public static async Task<string> Submit(ApiClient api, PhantomIds ids, string? callbackUrl = null, JsonObject? options = null)
+    {
         var body = new JsonObject
         {
-            ["baselineStudyId"] = b, ["followupStudyIds"] = new JsonArray(f),
-            ["glandMaskId"] = (string)gland["maskId"]!, ["lesionMaskId"] = (string)lesion["maskId"]!,
+            ["baselineStudyId"] = ids.Baseline, ["followupStudyIds"] = new JsonArray(ids.Followup),
+            ["glandMaskId"] = ids.Gland, ["lesionMaskId"] = ids.Lesion,
             ["psa"] = new JsonArray(PhantomStudies.Psa.Select(p => (JsonNode)new JsonObject
             {
                 ["date"] = p.Date.ToString("yyyy-MM-dd", System.Globalization.CultureInfo.InvariantCulture), ["value"] = p.NgPerMl,
             }).ToArray()),
         };
         if (callbackUrl is not null) body["callbackUrl"] = callbackUrl;
+        if (options is not null) body["options"] = options;
         using var r = await api.Send(HttpMethod.Post, "/v1/comparisons", ApiClient.Json(body));
         Assert.Equal(HttpStatusCode.Accepted, r.StatusCode);
         var created = JsonNode.Parse(await r.Content.ReadAsStringAsync())!;

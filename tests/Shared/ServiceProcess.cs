@@ -3,13 +3,13 @@ using System.Net;
 using System.Net.Sockets;
 using System.Text;
 
-namespace Serimetry.Api.Tests;
+namespace Serimetry.Tests.Shared;
 
 /// <summary>
-/// A real <c>serimetry serve</c> child process on a free loopback port with its own data folder; stdout and
+/// A real <c>serimetry serve</c> child process (tests and benchmarks) on a free loopback port with its own data folder; stdout and
 /// stderr (the service log) are captured for the PHI checks.
 /// </summary>
-internal sealed class ServiceProcess : IDisposable
+public sealed class ServiceProcess : IDisposable
 {
     private readonly Process _process;
     private readonly StringBuilder _log = new();
@@ -27,11 +27,15 @@ internal sealed class ServiceProcess : IDisposable
     /// <summary>Path of the built CLI (copied beside the tests by the project reference).</summary>
     public static string CliDll => Path.Combine(AppContext.BaseDirectory, "serimetry.dll");
 
-    public static async Task<ServiceProcess> Start(string dataDir, params string[] extra)
+    public static Task<ServiceProcess> Start(string dataDir, params string[] extra) => Start(dataDir, extra, null);
+
+    /// <summary>Starts a node with extra environment variables (e.g. <c>DOTNET_PROCESSOR_COUNT</c> to model a smaller machine).</summary>
+    public static async Task<ServiceProcess> Start(string dataDir, string[] extra, IReadOnlyDictionary<string, string>? environment)
     {
         int port = FreePort();
         string url = $"http://127.0.0.1:{port}";
         var psi = Psi(["serve", "--data", dataDir, "--urls", url, .. extra]);
+        foreach (var (k, v) in environment ?? new Dictionary<string, string>()) psi.Environment[k] = v;
         var p = Process.Start(psi)!;
         var s = new ServiceProcess(p, url);
         p.OutputDataReceived += (_, e) => s.Append(e.Data);
@@ -42,14 +46,29 @@ internal sealed class ServiceProcess : IDisposable
         return s;
     }
 
-    /// <summary>Runs <c>serimetry keys create</c> and returns the last line of its output (the key).</summary>
-    public static string CreateKey(string dataDir, string name)
+    /// <summary>Runs <c>serimetry keys create</c> (with store options in <paramref name="extra"/>) and returns the last line of its output (the key).</summary>
+    public static string CreateKey(string dataDir, string name, params string[] extra)
     {
-        using var p = Process.Start(Psi(["keys", "create", "--name", name, "--data", dataDir]))!;
+        using var p = Process.Start(Psi(["keys", "create", "--name", name, "--data", dataDir, .. extra]))!;
+        var errors = p.StandardError.ReadToEndAsync();
         string output = p.StandardOutput.ReadToEnd();
         p.WaitForExit();
-        Assert.Equal(0, p.ExitCode);
+        if (p.ExitCode != 0) throw new InvalidOperationException($"keys create failed ({p.ExitCode}): {errors.Result}");
         return output.TrimEnd().Split('\n')[^1].Trim();
+    }
+
+    /// <summary>Runs the CLI to its end (at most two minutes) and returns its exit code, stdout and stderr.</summary>
+    public static (int ExitCode, string Stdout, string Stderr) RunCli(params string[] args)
+    {
+        using var p = Process.Start(Psi(args))!;
+        var stderr = p.StandardError.ReadToEndAsync();
+        var stdout = p.StandardOutput.ReadToEndAsync();
+        if (!p.WaitForExit(120_000))
+        {
+            p.Kill(entireProcessTree: true);
+            throw new TimeoutException($"serimetry {string.Join(' ', args.Take(1))} did not end within two minutes");
+        }
+        return (p.ExitCode, stdout.Result, stderr.Result);
     }
 
     private static ProcessStartInfo Psi(string[] args)
