@@ -148,7 +148,8 @@ public sealed partial class DicomWebClient : IDisposable
     private string Where(string path) => "DICOMweb " + Options.Resolve(path).GetLeftPart(UriPartial.Path);
 
     private static string Describe(HttpRequestException e) =>
-        e.InnerException is { } inner && !string.IsNullOrEmpty(inner.Message) ? $"{e.Message} {inner.Message}".Trim() : e.Message;
+        e.InnerException is { Message.Length: > 0 } inner && !e.Message.Contains(inner.Message, StringComparison.Ordinal)
+            ? $"{e.Message} {inner.Message}" : e.Message;
 
     public void Dispose() => _http.Dispose();
 }

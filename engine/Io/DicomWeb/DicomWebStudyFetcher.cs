@@ -70,7 +70,8 @@ public static class DicomWebStudyFetcher
         string staging, CancellationToken ct)
     {
         string seriesDir = Path.Combine(staging, DicomWebOptions.CheckUid(series, "Series Instance UID"));
-        var result = await client.RetrieveAsync(study, series, Path.Combine(staging, "incoming"), ct);
+        string incoming = Path.Combine(staging, ".incoming");
+        var result = await client.RetrieveAsync(study, series, incoming, ct);
         Directory.CreateDirectory(seriesDir);
         foreach (var file in result.Files)
         {
@@ -80,6 +81,7 @@ public static class DicomWebStudyFetcher
                 throw new InputFormatException($"the server sent instance {sop} twice", "DICOMweb " + client.Options.BaseUrl, "check the server");
             File.Move(file, target);
         }
+        Directory.Delete(incoming);
         // QIDO's Number of Series Related Instances (0020,1209) is the count the server promises; fewer means something was lost.
         if (qido.GetInteger(DicomTags.NumberOfSeriesRelatedInstances) is { } expected && expected != result.Files.Count)
             throw new DicomWebException($"series {series} has {expected} instances on the server but {result.Files.Count} arrived",
