@@ -11,6 +11,7 @@ using Serimetry.Api.Jobs;
 using Serimetry.Api.Security;
 using Serimetry.Api.Storage;
 using Serimetry.Engine;
+using Serimetry.Engine.Io.DicomWeb;
 
 namespace Serimetry.Api.Hosting;
 
@@ -26,7 +27,8 @@ public static class ServiceHost
     {
         ["--data"] = "Serimetry:DataDir", ["--urls"] = "Serimetry:Urls", ["--max-request-bytes"] = "Serimetry:MaxRequestBytes",
         ["--workers"] = "Serimetry:Workers", ["--job-timeout"] = "Serimetry:JobTimeoutSeconds",
-        ["--rate-limit"] = "Serimetry:RequestsPerMinute",
+        ["--rate-limit"] = "Serimetry:RequestsPerMinute", ["--dicomweb-server"] = "Serimetry:DicomWebServer",
+        ["--dicomweb-auth"] = "Serimetry:DicomWebAuthorization",
     };
 
     /// <summary>Reads <see cref="ServiceOptions"/> from the configuration sources and <paramref name="args"/>.</summary>
@@ -47,13 +49,16 @@ public static class ServiceHost
         var paths = new DataPaths(options.DataDir);
         var store = new MetadataStore(paths.MetadataDb);
         builder.Services.AddSingleton(options).AddSingleton(paths).AddSingleton(store)
-            .AddSingleton<BlobStore>().AddSingleton<StudyIntake>().AddTransient<ComparisonJob>().AddTransient<CallbackJob>();
+            .AddSingleton<BlobStore>().AddSingleton<StudyIntake>().AddTransient<ComparisonJob>().AddTransient<CallbackJob>()
+            .AddTransient<ResultStoreJob>();
         builder.Services.Configure<RouteHandlerOptions>(o => o.ThrowOnBadRequest = true);
         builder.Services.ConfigureHttpJsonOptions(o => o.SerializerOptions.PropertyNamingPolicy = System.Text.Json.JsonNamingPolicy.CamelCase);
         builder.Services.AddOpenApi();
         AddJobs(builder.Services, paths, options);
         KeyRateLimit.Add(builder.Services, options.RequestsPerMinute);
 
+        // Options validated at start-up: a wrong DICOMweb URL or Authorization value stops the service with a clear error.
+        if (options.DicomWebServer is not null) DicomWebOptions.Create(options.DicomWebServer, options.DicomWebAuthorization);
         var app = builder.Build();
         app.UseExceptionHandler(new ExceptionHandlerOptions { ExceptionHandler = Problems.HandleException });
         app.UseStatusCodePages(ctx => ctx.HttpContext.Response.HasStarted ? Task.CompletedTask

@@ -26,4 +26,13 @@ public sealed record ServiceOptions
 
     /// <summary>Requests per minute allowed per API key (0: no limit); above it 429.</summary>
     public int RequestsPerMinute { get; init; } = 1200;
+
+    /// <summary>
+    /// DICOMweb root on which comparisons submitted with <c>options.storeResults</c> get their SR and SEG stored
+    /// (STOW-RS) when they finish; null: such submissions are refused.
+    /// </summary>
+    public string? DicomWebServer { get; init; }
+
+    /// <summary>Authorization header value for <see cref="DicomWebServer"/>, e.g. "Bearer TOKEN" (never logged).</summary>
+    public string? DicomWebAuthorization { get; init; }
 }

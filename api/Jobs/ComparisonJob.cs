@@ -54,6 +54,7 @@ public sealed class ComparisonJob(DataPaths paths, MetadataStore store, IBackgro
             catch (IOException) when (Directory.Exists(final)) { Directory.Delete(tmp, recursive: true); }
             store.FinishComparison(comparisonId, "done", null);
             log.LogInformation("comparison {ComparisonId} done", comparisonId);
+            if (submission.Options?.StoreResults == true) jobs.Enqueue<ResultStoreJob>(j => j.Store(comparisonId));
         }
         catch (InputException e)
         {

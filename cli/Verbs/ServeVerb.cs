@@ -7,7 +7,7 @@ internal sealed class ServeVerb : IVerb
 {
     public VerbSpec Spec { get; } = new("serve",
         "Run the HTTP service: study intake, durable comparison jobs, results (docs/service.md)",
-        "[--urls URL] [--data DIR] [--max-request-bytes N] [--workers N] [--job-timeout SECONDS] [--rate-limit N]",
+        "[--urls URL] [--data DIR] [--max-request-bytes N] [--workers N] [--job-timeout SECONDS] [--rate-limit N] [--dicomweb-server URL]",
         [
             new("urls", "URL", "listening URLs, ';'-separated (default http://127.0.0.1:8080)"),
             new("data", "DIR", "data folder: databases, stored studies and results (default ./serimetry-data)"),
@@ -15,6 +15,8 @@ internal sealed class ServeVerb : IVerb
             new("workers", "N", "comparison jobs run in parallel on this node (default 1)"),
             new("job-timeout", "SECONDS", "after this a job of a vanished node is run again (default 1800)"),
             new("rate-limit", "N", "requests per minute per API key; 0 = no limit (default 1200)"),
+            new("dicomweb-server", "URL", "DICOMweb root where comparisons with options.storeResults get their SR and SEG stored (STOW-RS)"),
+            new("dicomweb-auth", "HEADER", "Authorization value for --dicomweb-server (better: Serimetry__DicomWebAuthorization in the environment)"),
         ],
         Details: "Settings also come from appsettings.json (section \"Serimetry\") and environment variables (Serimetry__DataDir, ...).");
 

@@ -6,7 +6,7 @@ namespace Serimetry.Api.Tests;
 /// <summary>The integrator's workflow: upload both phantom exams and the baseline outlines, submit a comparison.</summary>
 internal static class Workflow
 {
-    public static async Task<string> SubmitPhantomComparison(ApiClient api, string? callbackUrl = null)
+    public static async Task<string> SubmitPhantomComparison(ApiClient api, string? callbackUrl = null, JsonObject? options = null)
     {
         var baseline = await api.Expect(HttpStatusCode.Created, HttpMethod.Post, "/v1/studies", ApiClient.Bytes(PhantomStudies.VisitZip(0), "application/zip"));
         var followup = await api.Expect(HttpStatusCode.Created, HttpMethod.Post, "/v1/studies", ApiClient.Bytes(PhantomStudies.VisitZip(1), "application/zip"));
@@ -25,6 +25,7 @@ internal static class Workflow
             }).ToArray()),
         };
         if (callbackUrl is not null) body["callbackUrl"] = callbackUrl;
+        if (options is not null) body["options"] = options;
         using var r = await api.Send(HttpMethod.Post, "/v1/comparisons", ApiClient.Json(body));
         Assert.Equal(HttpStatusCode.Accepted, r.StatusCode);
         var created = JsonNode.Parse(await r.Content.ReadAsStringAsync())!;

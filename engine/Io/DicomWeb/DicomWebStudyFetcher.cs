@@ -43,8 +43,10 @@ public static class DicomWebStudyFetcher
         if (seriesList.Count == 0)
             throw new DicomWebException($"study {studyInstanceUid} has no series on the server", "DICOMweb " + client.Options.BaseUrl,
                 "the study is empty; check it on the PACS");
+        bool created = !Directory.Exists(directory);
         Directory.CreateDirectory(directory);
         string staging = Path.Combine(directory, ".fetching-" + Guid.NewGuid().ToString("N")[..12]);
+        bool done = false;
         try
         {
             var fetched = new List<FetchedSeries>();
@@ -58,11 +60,13 @@ public static class DicomWebStudyFetcher
             }
             foreach (var d in Directory.EnumerateDirectories(staging))
                 Directory.Move(d, Path.Combine(directory, Path.GetFileName(d)));
+            done = true;
             return new FetchedStudy(studyInstanceUid, directory, fetched);
         }
         finally
         {
             if (Directory.Exists(staging)) Directory.Delete(staging, recursive: true);
+            if (!done && created && !Directory.EnumerateFileSystemEntries(directory).Any()) Directory.Delete(directory);
         }
     }
 

@@ -1,4 +1,5 @@
 using Serimetry.Engine.Phantoms;
+using Serimetry.Tests.Shared;
 
 namespace Serimetry.Conformance.DicomWeb;
 

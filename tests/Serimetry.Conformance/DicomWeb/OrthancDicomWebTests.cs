@@ -1,6 +1,7 @@
 using System.Text.Json.Nodes;
 using Serimetry.Engine.Io.Dicom;
 using Serimetry.Engine.Io.DicomWeb;
+using Serimetry.Tests.Shared;
 using Xunit;
 using Xunit.Abstractions;
 

@@ -5,7 +5,7 @@ using System.Net.Sockets;
 using System.Text;
 using System.Text.Json.Nodes;
 
-namespace Serimetry.Conformance.DicomWeb;
+namespace Serimetry.Tests.Shared;
 
 /// <summary>
 /// The reference DICOMweb server for the conformance tests: Debian's <c>orthanc</c> with the <c>orthanc-dicomweb</c>
