@@ -55,4 +55,16 @@ public sealed class DicomWebStoreTests : IDisposable
         }
         Assert.DoesNotContain(orthanc.Password, service.Log); // the credentials never reach the log
     }
+
+    [Fact]
+    public async Task StoreResults_without_a_configured_server_is_refused()
+    {
+        string key = ServiceProcess.CreateKey(_data, "dicomweb");
+        using var service = await ServiceProcess.Start(_data);
+        using var api = new ApiClient(service.BaseUrl, key);
+        var body = new JsonObject { ["baselineStudyId"] = "a", ["followupStudyIds"] = new JsonArray("b"), ["options"] = new JsonObject { ["storeResults"] = true } };
+        using var r = await api.Send(HttpMethod.Post, "/v1/comparisons", ApiClient.Json(body));
+        Assert.Equal(HttpStatusCode.BadRequest, r.StatusCode);
+        Assert.Contains("dicomweb-server", await r.Content.ReadAsStringAsync());
+    }
 }
