@@ -15,8 +15,8 @@ internal sealed class PushVerb : IVerb
 
     public int Run(ParsedArgs args, CliContext ctx)
     {
-        var files = Expand(args.Positionals);
         using var client = DicomWebArgs.Client(args);
+        var files = Expand(args.Positionals);
         var result = DicomWebArgs.Wait(client.StoreAsync(files));
         ctx.Out.WriteLine($"stored {result.Stored} of {files.Count} instances");
         return CliHost.ExitOk;

@@ -169,4 +169,21 @@ public sealed class MultipartRelatedReaderTests
     [InlineData("multipart/related boundary=x")]
     public void MalformedContentTypeIsAFormatError(string text) =>
         Assert.Throws<InputFormatException>(() => MimeContentType.Parse(text, "test"));
+
+    private sealed class StalledStream : MemoryStream
+    {
+        public override async ValueTask<int> ReadAsync(Memory<byte> buffer, CancellationToken ct = default)
+        {
+            await Task.Delay(Timeout.Infinite, ct);
+            return 0;
+        }
+    }
+
+    [Fact]
+    public async Task AStalledStreamIsCutOffWithAClearError()
+    {
+        var reader = new MultipartRelatedReader(new StalledStream(), "xx", idleTimeout: TimeSpan.FromMilliseconds(50));
+        var e = await Assert.ThrowsAsync<DicomWebException>(() => reader.ReadNextAsync(_ => Stream.Null));
+        Assert.Contains("stalled", e.Message);
+    }
 }
