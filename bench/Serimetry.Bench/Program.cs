@@ -5,6 +5,8 @@ if (args.Length > 0 && args[0] == "registration-vs-elastix")
     return Serimetry.Bench.RegistrationVsElastix.Run(args[1..]);
 if (args.Length > 0 && args[0] == "compare-speed")
     return Serimetry.Bench.CompareSpeed.Run(args[1..]);
+if (args.Length > 0 && args[0] == "radiomics-timing")
+    return Serimetry.Bench.RadiomicsTiming.Run(args[1..]);
 if (args.Length > 0 && args[0] == "dicomweb-vs-curl")
     return Serimetry.Bench.DicomWebVsCurl.Run(args[1..]);
 if (args.Length > 0 && args[0] == "compare-sweep")

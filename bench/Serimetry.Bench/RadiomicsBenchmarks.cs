@@ -31,7 +31,7 @@ public class RadiomicsBenchmarks
         for (int j = 0; j < 384; j++)
         for (int i = 0; i < 384; i++)
         {
-            double x = (i - 191.5) / 38.0, y = (j - 191.5) / 30.0, z = (k - 11.5) / 9.5;
+            double x = (i - 191.5) / 40.0, y = (j - 191.5) / 31.5, z = (k - 11.5) / 9.5;
             image[i, j, k] = (float)(500 + 200 * Math.Sin(i / 7.0) * Math.Cos(j / 5.0) + 50 * rng.NextDouble());
             if (x * x + y * y + z * z <= 1) mask[i, j, k] = 1;
         }

@@ -4,6 +4,7 @@ using Serimetry.Engine.Change;
 using Serimetry.Engine.Compare;
 using Serimetry.Engine.Core;
 using Serimetry.Engine.Radiomics;
+using Serimetry.Engine.Radiomics.Robustness;
 using Serimetry.Engine.Reports;
 using Serimetry.Engine.Reports.Html;
 using Serimetry.Engine.Repeatability;
@@ -31,6 +32,7 @@ internal sealed class CompareVerb : IVerb
             new("plugins", "DIR", "load measure plugins (assemblies with public IMeasure types) from DIR"),
             new("radiomics-settings", "FILE", "IBSI feature settings (JSON, docs/radiomics.md) for radiomics.csv"),
             new("no-radiomics", null, "skip the per-visit radiomic features"),
+            new("radiomics-robustness", "FILE", "test-retest feature table (CSV, e.g. from 'serimetry qa reproducibility --radiomics-out'): radiomic deltas use only features with ICC >= 0.75; default: unfiltered"),
             DicomWebArgs.Server(required: false),
             DicomWebArgs.Auth,
             DicomWebArgs.Timeout,
@@ -62,7 +64,8 @@ internal sealed class CompareVerb : IVerb
             WithinExamPreset: args.Has("no-within-exam") ? null : "within-exam",
             MaxThreads: args.GetInt("threads", -1, 1, 256),
             PluginFolder: args.Get("plugins"),
-            Radiomics: RadiomicsOption(args));
+            Radiomics: RadiomicsOption(args),
+            RadiomicsRobustness: args.Get("radiomics-robustness") is string rr ? RobustnessReference.FromTestRetestFile(rr) : null);
         if (options.FollowupPreset is not ("rigid" or "affine" or "deformable"))
             throw new UsageException($"option '--followup-preset' must be rigid, affine or deformable, got '{options.FollowupPreset}'");
         return new CompareRequest(args.Required("baseline"), args.GetAll("followup"), args.Get("gland"), args.Get("lesion"), psa, profile, options);

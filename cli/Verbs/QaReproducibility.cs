@@ -15,7 +15,9 @@ internal static class QaReproducibility
         int repeats = args.GetInt("repeats", 10, 2, 1000);
         var profile = args.Get("profile") is string p ? RepeatabilityProfile.Load(p) : RepeatabilityProfile.LoadDefault();
         var date = QaVerb.ParseDate(args.Get("date"));
-        var report = PhantomReproducibility.Run(spec, repeats, profile, r => ctx.Err.Write($"\rre-acquisition {r}/{repeats}"));
+        var radiomicsOut = args.Get("radiomics-out");
+        var report = PhantomReproducibility.Run(spec, repeats, profile, r => ctx.Err.Write($"\rre-acquisition {r}/{repeats}"),
+            radiomics: radiomicsOut is null ? null : new Engine.Radiomics.RadiomicsSettings());
         ctx.Err.WriteLine();
         QaPrinter.PrintTestRetest(ctx.Out, report.Statistics);
         ctx.Out.WriteLine();
@@ -27,6 +29,11 @@ internal static class QaReproducibility
         {
             PhantomReproducibilityWriter.WriteFile(output, report, date);
             ctx.Out.WriteLine($"wrote {output}");
+        }
+        if (radiomicsOut is not null)
+        {
+            PhantomReproducibilityWriter.WriteRadiomicFeatures(radiomicsOut, report);
+            ctx.Out.WriteLine($"wrote {radiomicsOut} ({report.RadiomicFeatures.Count} feature values; one subject: combine runs of several phantoms for ICCs)");
         }
         ctx.Out.WriteLine(SoftwareInfo.Caution);
         return 0;

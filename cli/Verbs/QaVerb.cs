@@ -14,7 +14,7 @@ internal sealed class QaVerb : IVerb
         "qa",
         "Quality assurance: test-retest statistics, repeatability profile, phantom checks",
         "test-retest --input TABLE.csv --out PROFILE.json [--scale auto|log|absolute] [--date YYYY-MM-DD]\n"
-        + "       serimetry qa reproducibility --phantom SPEC.json --repeats R [--profile PROFILE.json] [--out QA.json]\n"
+        + "       serimetry qa reproducibility --phantom SPEC.json --repeats R [--profile PROFILE.json] [--out QA.json] [--radiomics-out FEATURES.csv]\n"
         + "       serimetry qa dwi-phantom (--exam DIR | --dwi B=FILE ...) [--roi MASK] [--temperature C | --reference ADC] [--tolerance PCT]",
         [
             new OptionSpec("input", "TABLE.csv", "tidy CSV with header subject,measure,repeat,value"),
@@ -24,6 +24,7 @@ internal sealed class QaVerb : IVerb
             new OptionSpec("phantom", "SPEC.json", "reproducibility: phantom specification (e.g. phantoms/qa-reproducibility.json)"),
             new OptionSpec("repeats", "R", "reproducibility: number of noisy re-acquisitions (2-1000)"),
             new OptionSpec("profile", "PROFILE.json", "reproducibility: profile to judge change against (default: published defaults)"),
+            new OptionSpec("radiomics-out", "FEATURES.csv", "reproducibility: also write each repeat's radiomic features (test-retest table for compare --radiomics-robustness)"),
             new OptionSpec("exam", "DIR", "dwi-phantom: NIfTI exam folder whose exam.json lists the DWI files (repeat for repeatability across scans)", Repeatable: true),
             new OptionSpec("dwi", "B=FILE", "dwi-phantom: one DWI volume and its b-value (s/mm²)", Repeatable: true),
             new OptionSpec("roi", "MASK", "dwi-phantom: vial label mask (NIfTI); default: find circular vials"),

@@ -31,7 +31,7 @@ public static class CompareOutputs
             Registration.TransformFile.Write(Path.Combine(outDir, name), v.ToBaseline!);
             written.Add(name);
         }
-        if (result.Radiomics.Count > 0) written.AddRange(VisitRadiomics.Write(result.Radiomics, outDir));
+        if (result.RadiomicsScreen is { } screen) written.AddRange(VisitRadiomics.Write(new VisitRadiomicsResult(result.Radiomics, screen), outDir));
         var segs = Reports.Dicom.VisitSegOutputs.WriteWithIds(result.Visits, result.ExamPaths, outDir);
         written.AddRange(segs.Select(s => $"seg-{s.VisitIndex}.dcm"));
         if (result.Visits.Count > 0) written.Add(Reports.Dicom.VisitSegOutputs.WriteSr(result.Report, result.Visits, segs, outDir));

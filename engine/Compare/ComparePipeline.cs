@@ -15,17 +15,21 @@ namespace Serimetry.Engine.Compare;
 /// <summary>The result of a comparison: the change report and the aligned visits behind its pictures.</summary>
 public sealed class CompareResult
 {
-    internal CompareResult(ChangeReport report, IReadOnlyList<VisitImages> visits, IReadOnlyList<Radiomics.Series.VisitFeatures> radiomics)
+    internal CompareResult(ChangeReport report, IReadOnlyList<VisitImages> visits, VisitRadiomicsResult? radiomics)
     {
         Report = report;
         Visits = visits;
-        Radiomics = radiomics;
+        Radiomics = radiomics?.Features ?? [];
+        RadiomicsScreen = radiomics?.Screen;
     }
 
     public ChangeReport Report { get; }
 
     /// <summary>Per-visit IBSI features by region (empty when radiomics were not requested).</summary>
     public IReadOnlyList<Radiomics.Series.VisitFeatures> Radiomics { get; }
+
+    /// <summary>Which radiomic features feed the deltas and why (null when radiomics were not requested).</summary>
+    public Radiomics.Robustness.RobustnessScreen? RadiomicsScreen { get; }
 
     internal IReadOnlyList<VisitImages> Visits { get; }
 
@@ -72,11 +76,11 @@ public static class ComparePipeline
             inputs.Add(Measure(aligned[k], registry, request.Psa, MaskOps.Count(gland0) * t2Grid.VoxelVolumeMm3 / 1000.0));
         }
         if (request.Options.Radiomics is not null) progress?.Report(new CompareProgress("radiomic features", 0.97));
-        var radiomics = request.Options.Radiomics is { } rs ? VisitRadiomics.Extract(aligned, rs, problems) : [];
+        var radiomics = request.Options.Radiomics is { } rs ? VisitRadiomics.Extract(aligned, rs, request.Options.RadiomicsRobustness, problems) : null;
         var acquisitions = aligned.Select(v => new VisitAcquisition(v.Index, v.Exam.T2wAcquisition, v.Exam.AdcAcquisition,
             v.Exam.BValues, v.Exam.T2w.Geometry.SpacingMm, v.Exam.Adc.Geometry.SpacingMm, v.Exam.AdcSource)).ToList();
         var report = ChangeReportBuilder.Build(inputs, registry.All.Select(MeasureDescriptor.From).ToList(), request.Profile,
-            request.Psa, acquisitions, problems: problems, extraSettings: Settings(request.Options));
+            request.Psa, acquisitions, problems: problems, extraSettings: Settings(request.Options, radiomics));
         progress?.Report(new CompareProgress("done", 1));
         return new CompareResult(report, aligned, radiomics) { ExamPaths = [request.BaselineExam, .. request.FollowupExams] };
     }
@@ -241,6 +245,13 @@ public static class ComparePipeline
         if (v.Lesion is not { } l || v.PropagatedLesion is not { } p) return null;
         var agreement = MaskAgreement.Compare(l.Mask, p);
         return new LesionRefitRecord(agreement.Dice, agreement.CentroidShiftMm, l.Note is null ? [] : [l.Note]);
+    }
+
+    private static Dictionary<string, string> Settings(ComparisonOptions o, VisitRadiomicsResult? radiomics)
+    {
+        var settings = Settings(o);
+        if (radiomics is not null) settings["radiomics.robustness"] = radiomics.Screen.Summary;
+        return settings;
     }
 
     private static Dictionary<string, string> Settings(ComparisonOptions o) => new()

@@ -28,6 +28,8 @@ public sealed record CompareRequest(
 /// <param name="MaxThreads">Threads for parallel loops (-1: all cores).</param>
 /// <param name="PluginFolder">Folder of measure plugin assemblies to load beside the built-ins, or null.</param>
 /// <param name="Radiomics">IBSI feature settings for the per-visit radiomics, or null to skip them.</param>
+/// <param name="RadiomicsRobustness">Test-retest reliabilities that decide which features feed the radiomic deltas, or null
+/// (unfiltered, said in the outputs).</param>
 public sealed record ComparisonOptions(
     bool AllowDifferentPatients = false,
     string FollowupPreset = "rigid",
@@ -35,7 +37,8 @@ public sealed record ComparisonOptions(
     LesionRefitSettings? Refit = null,
     int MaxThreads = -1,
     string? PluginFolder = null,
-    Radiomics.RadiomicsSettings? Radiomics = null)
+    Radiomics.RadiomicsSettings? Radiomics = null,
+    Radiomics.Robustness.RobustnessReference? RadiomicsRobustness = null)
 {
     public LesionRefitSettings RefitSettings => Refit ?? new LesionRefitSettings();
 }

@@ -3,6 +3,8 @@ using Serimetry.Engine.Imaging;
 using Serimetry.Engine.Imaging.Morphology;
 using Serimetry.Engine.Measures;
 using Serimetry.Engine.Phantoms;
+using Serimetry.Engine.Radiomics;
+using Serimetry.Engine.Radiomics.Robustness;
 using Serimetry.Engine.Repeatability;
 
 namespace Serimetry.Engine.Compare;
@@ -25,7 +27,14 @@ public sealed record FalsePositiveRate(string Measure, int Pairs, int ExceedingP
 /// <param name="FalsePositiveRates">Change-exceeds-noise rate among pairs without true change.</param>
 /// <param name="ProfileName">Profile the rates were judged against.</param>
 public sealed record PhantomReproducibilityReport(int Repeats, IReadOnlyList<RepeatabilityObservation> Observations,
-    TestRetestReport Statistics, IReadOnlyList<FalsePositiveRate> FalsePositiveRates, string ProfileName);
+    TestRetestReport Statistics, IReadOnlyList<FalsePositiveRate> FalsePositiveRates, string ProfileName)
+{
+    /// <summary>
+    /// Radiomic features of every repeat (lesion and gland, T2w and ADC), as a test-retest feature table
+    /// (<see cref="TestRetestTable"/>); empty unless radiomics were requested.
+    /// </summary>
+    public IReadOnlyList<TestRetestValue> RadiomicFeatures { get; init; } = [];
+}
 
 /// <summary>
 /// Phantom QA run: R noisy re-acquisitions of one phantom (same anatomy and position, only the noise seed
@@ -36,9 +45,12 @@ public sealed record PhantomReproducibilityReport(int Repeats, IReadOnlyList<Rep
 /// </summary>
 public static class PhantomReproducibility
 {
-    /// <summary>Runs the QA; <paramref name="progress"/> is told after each repeat.</summary>
+    /// <summary>
+    /// Runs the QA; <paramref name="progress"/> is told after each repeat. With <paramref name="radiomics"/> settings the
+    /// radiomic features of every repeat are computed as compare computes them (<see cref="PhantomReproducibilityReport.RadiomicFeatures"/>).
+    /// </summary>
     public static PhantomReproducibilityReport Run(PhantomSpec spec, int repeats, RepeatabilityProfile? profile = null,
-        Action<int>? progress = null, int maxDegreeOfParallelism = -1)
+        Action<int>? progress = null, int maxDegreeOfParallelism = -1, RadiomicsSettings? radiomics = null)
     {
         ArgumentNullException.ThrowIfNull(spec);
         if (repeats is < 2 or > 1000)
@@ -46,28 +58,38 @@ public static class PhantomReproducibility
         profile ??= RepeatabilityProfile.LoadDefault();
         var single = spec with { Visits = 1, PsaNgPerMl = spec.PsaNgPerMl.Take(1).ToArray() };
         var rows = new List<RepeatabilityObservation>();
+        var features = new List<TestRetestValue>();
         for (int r = 0; r < repeats; r++)
         {
             var visit = PhantomGenerator.Generate(single with { NoiseSeed = unchecked((spec.NoiseSeed ?? spec.Seed) + 1000 * (r + 1)) },
                 maxDegreeOfParallelism).Visits[0];
-            foreach (var (m, v) in MeasureVisit(visit)) rows.Add(new RepeatabilityObservation(spec.SubjectId, m, $"r{r + 1}", v));
+            var (gland, lesion) = Outlines(visit);
+            foreach (var (m, v) in MeasureVisit(visit, gland, lesion)) rows.Add(new RepeatabilityObservation(spec.SubjectId, m, $"r{r + 1}", v));
+            if (radiomics is not null)
+                foreach (var (region, image, values, _) in VisitRadiomics.Regions(visit.T2w, visit.Adc, lesion, gland, radiomics))
+                    foreach (var f in values ?? []) features.Add(new TestRetestValue(spec.SubjectId, r, f, region, image));
             progress?.Invoke(r + 1);
         }
         var stats = TestRetestAnalysis.Analyse(rows);
         var rates = stats.Measures.Select(m => Rate(m, rows.Where(x => x.Measure == m.Measure).Select(x => x.Value).ToArray(), profile)).ToList();
-        return new PhantomReproducibilityReport(repeats, rows, stats, rates, profile.Name);
+        return new PhantomReproducibilityReport(repeats, rows, stats, rates, profile.Name) { RadiomicFeatures = features };
     }
 
-    /// <summary>The visit's measures with status ok, measured as the comparison pipeline measures a visit.</summary>
-    internal static IEnumerable<(string Measure, double Value)> MeasureVisit(PhantomVisit visit)
+    /// <summary>The phantom's gland outline and its lesion re-fitted as compare re-fits a follow-up lesion.</summary>
+    private static (Volume<byte> Gland, Volume<byte> Lesion) Outlines(PhantomVisit visit)
     {
         var settings = new LesionRefitSettings();
         var gland = MaskOps.Binarize(visit.GlandMask);
         var lesion = MaskOps.Binarize(visit.LesionMask);
         var adcOnT2w = Resampler.Resample(visit.Adc, visit.T2w.Geometry, null, Interpolation.Linear, float.NaN);
         var model = LesionRefit.Learn(visit.T2w, adcOnT2w, lesion, gland, settings);
-        var refit = LesionRefit.Refit(visit.T2w, adcOnT2w, lesion, gland, model, settings);
-        var context = new VisitContext(0, visit.Date, visit.T2w) { Adc = visit.Adc, GlandMask = gland, LesionMask = refit.Mask };
+        return (gland, LesionRefit.Refit(visit.T2w, adcOnT2w, lesion, gland, model, settings).Mask);
+    }
+
+    /// <summary>The visit's measures with status ok, measured as the comparison pipeline measures a visit.</summary>
+    private static IEnumerable<(string Measure, double Value)> MeasureVisit(PhantomVisit visit, Volume<byte> gland, Volume<byte> lesion)
+    {
+        var context = new VisitContext(0, visit.Date, visit.T2w) { Adc = visit.Adc, GlandMask = gland, LesionMask = lesion };
         return MeasureRunner.Run(MeasureRegistry.CreateDefault().All, context)
             .Where(p => p.Value.Status == MeasureStatus.Ok && p.Value.Value is not null)
             .OrderBy(p => p.Key, StringComparer.Ordinal)

@@ -27,6 +27,17 @@ public static class PhantomReproducibilityWriter
         });
     }
 
+    /// <summary>
+    /// Writes the per-repeat radiomic features as a test-retest feature table (<see cref="Radiomics.Robustness.TestRetestTable"/>),
+    /// repeats labelled r1, r2 … as in the profile; several runs (phantoms or subjects) concatenated give the ICCs that
+    /// <c>compare --radiomics-robustness</c> uses.
+    /// </summary>
+    public static void WriteRadiomicFeatures(string path, PhantomReproducibilityReport report)
+    {
+        using var w = new StreamWriter(path);
+        Radiomics.Robustness.TestRetestTable.Write(w, report.RadiomicFeatures);
+    }
+
     private static void WriteRate(Utf8JsonWriter w, FalsePositiveRate r)
     {
         w.WriteStartObject();

@@ -1,3 +1,5 @@
+using System.Numerics;
+
 namespace Serimetry.Engine.Measures;
 
 /// <summary>
@@ -7,31 +9,43 @@ namespace Serimetry.Engine.Measures;
 /// SD, skewness m3/m2^1.5 (KE2A), excess kurtosis m4/m2² − 3 (IPH6). Percentiles use linear interpolation
 /// between order statistics, Hyndman &amp; Fan (Am Stat 1996;50:361) definition 7: for sorted x[0..n−1] and
 /// p in [0,1], h = (n−1)·p, P = x[⌊h⌋] + (h − ⌊h⌋)·(x[⌊h⌋+1] − x[⌊h⌋]). The median is P(0.5).
+/// The radiomics intensity families (engine/Radiomics/Intensity/DistributionStats.cs) use these same definitions
+/// through the double overloads; every sum is accumulated in double whatever the sample type.
 /// </summary>
 public static class SampleStatistics
 {
-    /// <summary>Arithmetic mean (two-pass sums in double).</summary>
-    public static double Mean(ReadOnlySpan<float> x)
+    /// <summary>Arithmetic mean (Kahan-compensated sum in double).</summary>
+    public static double Mean(ReadOnlySpan<float> x) => MeanOf(x);
+
+    /// <summary>Arithmetic mean (Kahan-compensated sum).</summary>
+    public static double Mean(ReadOnlySpan<double> x) => MeanOf(x);
+
+    /// <summary>Central moments m2, m3, m4 with 1/N normalisation.</summary>
+    public static (double M2, double M3, double M4) CentralMoments(ReadOnlySpan<float> x, double mean) => MomentsOf(x, mean);
+
+    /// <summary>Central moments m2, m3, m4 with 1/N normalisation.</summary>
+    public static (double M2, double M3, double M4) CentralMoments(ReadOnlySpan<double> x, double mean) => MomentsOf(x, mean);
+
+    private static double MeanOf<T>(ReadOnlySpan<T> x) where T : unmanaged, INumberBase<T>
     {
         if (x.IsEmpty) return double.NaN;
         double s = 0, c = 0;
-        foreach (float v in x)
+        foreach (T value in x)
         {
             // Kahan-compensated sum: many similar values make naive float sums drift.
-            double y = v - c, t = s + y;
+            double y = double.CreateTruncating(value) - c, t = s + y;
             c = (t - s) - y;
             s = t;
         }
         return s / x.Length;
     }
 
-    /// <summary>Central moments m2, m3, m4 with 1/N normalisation.</summary>
-    public static (double M2, double M3, double M4) CentralMoments(ReadOnlySpan<float> x, double mean)
+    private static (double M2, double M3, double M4) MomentsOf<T>(ReadOnlySpan<T> x, double mean) where T : unmanaged, INumberBase<T>
     {
         double m2 = 0, m3 = 0, m4 = 0;
-        foreach (float v in x)
+        foreach (T value in x)
         {
-            double d = v - mean, d2 = d * d;
+            double d = double.CreateTruncating(value) - mean, d2 = d * d;
             m2 += d2;
             m3 += d2 * d;
             m4 += d2 * d2;
@@ -65,13 +79,19 @@ public static class SampleStatistics
     }
 
     /// <summary>Percentile p ∈ [0, 1] of an ascending sample (Hyndman &amp; Fan definition 7).</summary>
-    public static double Percentile(ReadOnlySpan<float> sorted, double p)
+    public static double Percentile(ReadOnlySpan<float> sorted, double p) => PercentileOf(sorted, p);
+
+    /// <summary>Percentile p ∈ [0, 1] of an ascending sample (Hyndman &amp; Fan definition 7).</summary>
+    public static double Percentile(ReadOnlySpan<double> sorted, double p) => PercentileOf(sorted, p);
+
+    private static double PercentileOf<T>(ReadOnlySpan<T> sorted, double p) where T : unmanaged, INumberBase<T>
     {
         if (sorted.IsEmpty) return double.NaN;
         if (p is < 0 or > 1 || double.IsNaN(p)) throw new ArgumentOutOfRangeException(nameof(p), p, "percentile must be in [0, 1]");
         double h = (sorted.Length - 1) * p;
         int lo = (int)Math.Floor(h);
-        if (lo >= sorted.Length - 1) return sorted[^1];
-        return sorted[lo] + (h - lo) * ((double)sorted[lo + 1] - sorted[lo]);
+        double low = double.CreateTruncating(sorted[lo]);
+        if (lo >= sorted.Length - 1) return low;
+        return low + (h - lo) * (double.CreateTruncating(sorted[lo + 1]) - low);
     }
 }

@@ -18,11 +18,8 @@ public static class FeatureCsvWriter
         writer.Write('\n');
         foreach (var f in features)
         {
-            writer.Write(Quote(f.Family)); writer.Write(',');
-            writer.Write(Quote(f.Feature)); writer.Write(',');
-            writer.Write(Quote(f.IbsiCode)); writer.Write(',');
-            writer.Write(Quote(f.AggregationCode)); writer.Write(',');
-            if (double.IsFinite(f.Value)) writer.Write(f.Value.ToString("R", CultureInfo.InvariantCulture));
+            writer.Write(string.Join(',', RadiomicsCsv.Field(f.Family), RadiomicsCsv.Field(f.Feature), RadiomicsCsv.Field(f.IbsiCode),
+                RadiomicsCsv.Field(f.AggregationCode), RadiomicsCsv.Number(f.Value)));
             writer.Write('\n');
         }
     }
@@ -33,7 +30,4 @@ public static class FeatureCsvWriter
         Write(sb, features);
         return sb.ToString();
     }
-
-    private static string Quote(string s) =>
-        s.AsSpan().IndexOfAny(",\"\n\r") >= 0 ? "\"" + s.Replace("\"", "\"\"", StringComparison.Ordinal) + "\"" : s;
 }

@@ -1,9 +1,12 @@
+using Serimetry.Engine.Measures;
+
 namespace Serimetry.Engine.Radiomics.Intensity;
 
 /// <summary>
 /// Statistics of a sample shared by the intensity-based statistics (IBSI 3.3) and intensity histogram
-/// (IBSI 3.4) families. Percentiles use linear interpolation between closest ranks (IBSI leaves the
-/// percentile definition open; documented in docs/radiomics.md). Variance is the population variance.
+/// (IBSI 3.4) families. Mean, central moments and percentiles come from <see cref="SampleStatistics"/>, the one
+/// definition the compare measures use too (population variance; Hyndman &amp; Fan type 7 percentiles, which IBSI
+/// leaves open; docs/radiomics.md). This type adds the IBSI-only derived statistics.
 /// </summary>
 internal readonly record struct DistributionStats(
     double Mean, double Variance, double Skewness, double Kurtosis, double Median, double Min, double P10, double P25,
@@ -14,16 +17,10 @@ internal readonly record struct DistributionStats(
     public static DistributionStats Of(ReadOnlySpan<double> sorted)
     {
         int n = sorted.Length;
-        double sum = 0, energy = 0;
-        foreach (var v in sorted) { sum += v; energy += v * v; }
-        double mean = sum / n;
-        double m2 = 0, m3 = 0, m4 = 0, mad = 0;
-        foreach (var v in sorted)
-        {
-            double d = v - mean, d2 = d * d;
-            m2 += d2; m3 += d2 * d; m4 += d2 * d2; mad += Math.Abs(d);
-        }
-        m2 /= n; m3 /= n; m4 /= n;
+        double mean = SampleStatistics.Mean(sorted);
+        var (m2, m3, m4) = SampleStatistics.CentralMoments(sorted, mean);
+        double energy = 0, mad = 0;
+        foreach (var v in sorted) { energy += v * v; mad += Math.Abs(v - mean); }
         // IBSI 3.3.3/3.3.4: skewness and kurtosis are 0 when the variance is 0.
         double skew = m2 > 0 ? m3 / Math.Pow(m2, 1.5) : 0;
         double kurt = m2 > 0 ? m4 / (m2 * m2) - 3 : 0;
@@ -36,15 +33,8 @@ internal readonly record struct DistributionStats(
             (p75 - p25) / (p75 + p25), energy, Math.Sqrt(energy / n));
     }
 
-    /// <summary>Percentile by linear interpolation between closest ranks (position p/100·(n−1)).</summary>
-    public static double Percentile(ReadOnlySpan<double> sorted, double p)
-    {
-        double pos = p / 100.0 * (sorted.Length - 1);
-        int lo = (int)Math.Floor(pos);
-        int hi = Math.Min(lo + 1, sorted.Length - 1);
-        double f = pos - lo;
-        return f == 0 ? sorted[lo] : sorted[lo] + (sorted[hi] - sorted[lo]) * f;
-    }
+    /// <summary>Percentile <paramref name="p"/> in per cent (Hyndman &amp; Fan type 7, <see cref="SampleStatistics.Percentile(ReadOnlySpan{double}, double)"/>).</summary>
+    public static double Percentile(ReadOnlySpan<double> sorted, double p) => SampleStatistics.Percentile(sorted, p / 100.0);
 
     // IBSI 3.3.15: mean absolute deviation from the mean of the values within [P10, P90].
     private static double RobustMad(ReadOnlySpan<double> sorted, double p10, double p90)

@@ -4,7 +4,7 @@ namespace Serimetry.Engine.Radiomics.Intensity;
 
 /// <summary>
 /// Intensity-based statistics (IBSI 3.3, family UHIW) on the intensity-mask intensities, and the intensity
-/// histogram (IBSI 3.4, family ZVCW) on the discretised levels. Both refer to the whole 3D ROI (DHQ4).
+/// histogram (IBSI 3.4, family ZVCW) on the discretised levels. Both refer to the whole 3D ROI (no aggregation code).
 /// </summary>
 internal static class IntensityFamilies
 {
@@ -12,7 +12,7 @@ internal static class IntensityFamilies
     {
         var values = RoiValues(roi, useLevels: false);
         var s = DistributionStats.Of(values);
-        void Add(string name, string code, double v) => sink.Add(FamilyNames.IntensityStatistics, name, code, IbsiAggregation.Volume3D, v);
+        void Add(string name, string code, double v) => sink.Add(FamilyNames.IntensityStatistics, name, code, IbsiAggregation.None, v);
         Add("Mean intensity", "Q4LE", s.Mean);
         Add("Intensity variance", "ECT3", s.Variance);
         Add("Intensity skewness", "KE2A", s.Skewness);
@@ -37,7 +37,7 @@ internal static class IntensityFamilies
     {
         var values = RoiValues(roi, useLevels: true);
         var s = DistributionStats.Of(values);
-        void Add(string name, string code, double v) => sink.Add(FamilyNames.IntensityHistogram, name, code, IbsiAggregation.Volume3D, v);
+        void Add(string name, string code, double v) => sink.Add(FamilyNames.IntensityHistogram, name, code, IbsiAggregation.None, v);
         Add("Mean discretised intensity", "X6K6", s.Mean);
         Add("Discretised intensity variance", "CH89", s.Variance);
         Add("Discretised intensity skewness", "88K1", s.Skewness);

@@ -22,7 +22,7 @@ internal static class IntensityVolumeHistogram
 
         double v10 = VolumeAt(atLeast, ivh, 0.10), v90 = VolumeAt(atLeast, ivh, 0.90);
         double i10 = IntensityAt(atLeast, ivh, 0.10), i90 = IntensityAt(atLeast, ivh, 0.90);
-        void Add(string name, string code, double v) => sink.Add(FamilyNames.IntensityVolumeHistogram, name, code, IbsiAggregation.Volume3D, v);
+        void Add(string name, string code, double v) => sink.Add(FamilyNames.IntensityVolumeHistogram, name, code, IbsiAggregation.None, v);
         Add("Volume at intensity fraction (V10)", "BC2M", v10);
         Add("Volume at intensity fraction (V90)", "BC2M", v90);
         Add("Intensity at volume fraction (I10)", "GBPN", i10);

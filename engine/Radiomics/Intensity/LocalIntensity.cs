@@ -28,8 +28,8 @@ internal static class LocalIntensity
             if (mean > global) global = mean;
             if (roi.Intensity[n] == max && mean > local) local = mean;
         }
-        sink.Add(FamilyNames.LocalIntensity, "Local intensity peak", "VJGA", IbsiAggregation.Volume3D, local);
-        sink.Add(FamilyNames.LocalIntensity, "Global intensity peak", "0F91", IbsiAggregation.Volume3D, global);
+        sink.Add(FamilyNames.LocalIntensity, "Local intensity peak", "VJGA", IbsiAggregation.None, local);
+        sink.Add(FamilyNames.LocalIntensity, "Global intensity peak", "0F91", IbsiAggregation.None, global);
     }
 
     /// <summary>The sphere as x-runs: for each (dy, dz) offset, the half-width in x of voxel centres inside it.</summary>

@@ -14,7 +14,7 @@ internal static class MorphologyFeatures
         var mesh = SurfaceMesh.Build(roi);
         double v = mesh.VolumeMm3, a = mesh.AreaMm2;
         var sp = roi.SpacingMm;
-        void Add(string name, string code, double value) => sink.Add(FamilyNames.Morphology, name, code, IbsiAggregation.Volume3D, value);
+        void Add(string name, string code, double value) => sink.Add(FamilyNames.Morphology, name, code, IbsiAggregation.None, value);
         Add("Volume (mesh)", "RNU0", v);
         Add("Volume (voxel counting)", "YEKZ", roi.MorphVoxelCount * sp.X * sp.Y * sp.Z);
         Add("Surface area (mesh)", "C0JK", a);

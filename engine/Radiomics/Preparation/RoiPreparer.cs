@@ -1,4 +1,5 @@
 using Serimetry.Engine.Core;
+using Serimetry.Engine.Imaging;
 
 namespace Serimetry.Engine.Radiomics.Preparation;
 
@@ -9,10 +10,10 @@ namespace Serimetry.Engine.Radiomics.Preparation;
 /// </summary>
 internal static class RoiPreparer
 {
-    /// <summary>Radius of the 1 cm³ sphere used by the local-intensity features (IBSI 3.2): (3/(4π))^(1/3) cm.</summary>
     /// <summary>Most grey levels for the texture discretisation: a GLCM holds N_g² counts per matrix.</summary>
     public const int MaxTextureBins = 1024;
 
+    /// <summary>Radius of the 1 cm³ sphere used by the local-intensity features (IBSI 3.2): (3/(4π))^(1/3) cm.</summary>
     public static readonly double PeakRadiusMm = 10.0 * Math.Cbrt(3.0 / (4.0 * Math.PI));
 
     public static RoiData Prepare(Volume<float> image, Volume<byte> mask, RadiomicsSettings settings)
@@ -29,32 +30,48 @@ internal static class RoiPreparer
             var labels = mask.Voxels;
             return Crop(image.Geometry, n => voxels[n], n => labels[n] != 0, settings);
         }
-        var values = new double[image.Voxels.Length];
-        for (int n = 0; n < values.Length; n++) values[n] = image.Voxels[n];
-        var roi = new byte[mask.Voxels.Length];
-        for (int n = 0; n < roi.Length; n++) roi[n] = mask.Voxels[n] != 0 ? (byte)1 : (byte)0;
-        RequireNonEmpty(roi, "mask", "the mask has no voxel inside the ROI (all zero)");
-        var (geometry, resampled, resampledRoi) = Resample(image.Geometry, values, roi, rs);
-        RequireNonEmpty(resampledRoi, "mask", "the ROI vanished after resampling (fewer than half-covered voxels)");
-        return Crop(geometry, n => resampled[n], n => resampledRoi[n] != 0, settings);
+        RequireNonEmpty(mask.Voxels, "mask", "the mask has no voxel inside the ROI (all zero)");
+        var (values, roi) = Resample(image, mask, rs);
+        RequireNonEmpty(roi.Voxels, "mask", "the ROI vanished after resampling (fewer than half-covered voxels)");
+        var v = values.Voxels;
+        var r = roi.Voxels;
+        return Crop(values.Geometry, n => v[n], n => r[n] != 0, settings);
     }
 
-    private static (Geometry, double[], byte[]) Resample(Geometry g, double[] values, byte[] roi, ResamplingSettings rs)
+    /// <summary>
+    /// Image and ROI on the IBSI "align grid centres" grid (<see cref="ResampleGrid.WithSpacing"/>) through the engine's
+    /// one resampler (<see cref="Resampler"/>); the ROI's 0/1 indicator is interpolated and kept at the partial-volume
+    /// threshold. IBSI's grid never places a centre outside the old grid's extent, so no sample is "outside"; samples
+    /// beyond the last voxel centre take the edge value (the resampler's clamp).
+    /// </summary>
+    private static (Volume<float> Values, Volume<byte> Roi) Resample(Volume<float> image, Volume<byte> mask, ResamplingSettings rs)
     {
         if (!(rs.PartialVolumeThreshold > 0 && rs.PartialVolumeThreshold <= 1))
             throw new InvalidParameterException($"partial-volume threshold {rs.PartialVolumeThreshold} must be in (0, 1]",
                 "resampling.partialVolumeThreshold", "IBSI uses 0.5");
-        var target = GridResampler.AlignedGrid(g, rs.SpacingMm);
-        var newValues = GridResampler.Resample(values, g, target, rs.Interpolation);
+        if (rs.SpacingMm.Length != 3)
+            throw new InvalidParameterException($"resampling spacing has {rs.SpacingMm.Length} entries; expected 3 (x, y, z)", "resampling.spacingMm");
+        var g = image.Geometry;
+        var target = ResampleGrid.WithSpacing(g, new Vec3(rs.SpacingMm[0] ?? g.SpacingMm.X, rs.SpacingMm[1] ?? g.SpacingMm.Y, rs.SpacingMm[2] ?? g.SpacingMm.Z));
+        var values = Resampler.Resample(image, target, null, Mode(rs.Interpolation));
         if (rs.RoundIntensities)
-            for (int n = 0; n < newValues.Length; n++) newValues[n] = Math.Round(newValues[n], MidpointRounding.AwayFromZero);
-        var maskValues = new double[roi.Length];
-        for (int n = 0; n < roi.Length; n++) maskValues[n] = roi[n];
-        var newMask = GridResampler.Resample(maskValues, g, target, rs.MaskInterpolation);
-        var newRoi = new byte[newMask.Length];
-        for (int n = 0; n < newMask.Length; n++) newRoi[n] = newMask[n] >= rs.PartialVolumeThreshold ? (byte)1 : (byte)0;
-        return (target, newValues, newRoi);
+        {
+            var v = values.Voxels;
+            for (int n = 0; n < v.Length; n++) v[n] = MathF.Round(v[n], MidpointRounding.AwayFromZero);
+        }
+        var indicator = new Volume<float>(g);
+        var iv = indicator.Voxels;
+        var m = mask.Voxels;
+        for (int n = 0; n < m.Length; n++) iv[n] = m[n] != 0 ? 1f : 0f;
+        var fraction = Resampler.Resample(indicator, target, null, Mode(rs.MaskInterpolation)).Voxels;
+        var roi = new Volume<byte>(target);
+        var rv = roi.Voxels;
+        for (int n = 0; n < rv.Length; n++) rv[n] = fraction[n] >= rs.PartialVolumeThreshold ? (byte)1 : (byte)0;
+        return (values, roi);
     }
+
+    private static Interpolation Mode(InterpolationMethod method) =>
+        method == InterpolationMethod.Nearest ? Interpolation.Nearest : Interpolation.Linear;
 
     private static RoiData Crop(Geometry g, Func<int, double> valueAt, Func<int, bool> inRoiAt, RadiomicsSettings settings)
     {
@@ -144,7 +161,7 @@ internal static class RoiPreparer
 
     private static void RequireNonEmpty(byte[] roi, string where, string message)
     {
-        if (Count(roi) == 0)
+        if (!roi.AsSpan().ContainsAnyExcept((byte)0))
             throw new InputFormatException(message, where, "supply a mask with at least one non-zero voxel on the image grid");
     }
 

@@ -15,14 +15,17 @@ public static class FeatureRobustness
     /// <summary>Default |ρ| at which a correlation with an acquisition parameter counts as strong (common practice: 0.7).</summary>
     public const double DefaultCorrelationThreshold = 0.7;
 
-    /// <summary>ICC(2,1) per feature (family, code, aggregation, name); <c>Robust</c> when ICC ≥ threshold.</summary>
+    /// <summary>
+    /// ICC(2,1) per feature (family, code, aggregation, name) and per region and image when the values name them;
+    /// <c>Robust</c> when ICC ≥ threshold.
+    /// </summary>
     public static IReadOnlyList<FeatureReliability> TestRetest(IReadOnlyList<TestRetestValue> values, double iccThreshold = DefaultIccThreshold)
     {
         ArgumentNullException.ThrowIfNull(values);
         var result = new List<FeatureReliability>();
-        foreach (var group in values.GroupBy(v => Key(v.Feature)).OrderBy(g => g.Key, StringComparer.Ordinal))
+        foreach (var group in values.GroupBy(v => $"{v.Region}|{v.Image}|{Key(v.Feature)}").OrderBy(g => g.Key, StringComparer.Ordinal))
         {
-            var first = group.First().Feature;
+            var first = group.First();
             var repeats = group.Select(v => v.Repeat).Distinct().OrderBy(r => r).ToArray();
             var subjects = group.GroupBy(v => v.SubjectId, StringComparer.Ordinal)
                 .Where(s => repeats.All(r => s.Any(v => v.Repeat == r && double.IsFinite(v.Feature.Value))))
@@ -32,8 +35,9 @@ public static class FeatureRobustness
             for (int j = 0; j < repeats.Length; j++)
                 ratings[i, j] = subjects[i].First(v => v.Repeat == repeats[j]).Feature.Value;
             double icc = Icc21(ratings);
-            result.Add(new FeatureReliability(first.Family, first.Feature, first.IbsiCode, first.AggregationCode,
-                icc, subjects.Count, repeats.Length, icc >= iccThreshold));
+            var f = first.Feature;
+            result.Add(new FeatureReliability(f.Family, f.Feature, f.IbsiCode, f.AggregationCode,
+                icc, subjects.Count, repeats.Length, icc >= iccThreshold, first.Region, first.Image));
         }
         return result;
     }
@@ -76,11 +80,16 @@ public static class FeatureRobustness
         if (exams.Count == 0) return result;
         var parameters = exams[0].AcquisitionParameters.Keys.Where(p => exams.All(e => e.AcquisitionParameters.ContainsKey(p)))
             .OrderBy(p => p, StringComparer.Ordinal).ToList();
-        var features = exams[0].Features;
-        foreach (var f in features)
+        var byKey = exams.Select(e =>
+        {
+            var d = new Dictionary<string, double>(StringComparer.Ordinal);
+            foreach (var x in e.Features) d[Key(x)] = x.Value;
+            return d;
+        }).ToList();
+        foreach (var f in exams[0].Features)
         {
             var key = Key(f);
-            var values = exams.Select(e => e.Features.FirstOrDefault(x => Key(x) == key)?.Value ?? double.NaN).ToArray();
+            var values = byKey.Select(d => d.TryGetValue(key, out double v) ? v : double.NaN).ToArray();
             foreach (var p in parameters)
             {
                 var x = new List<double>();
@@ -129,5 +138,5 @@ public static class FeatureRobustness
         return ranks;
     }
 
-    private static string Key(FeatureValue f) => $"{f.Family}|{f.IbsiCode}|{f.AggregationCode}|{f.Feature}";
+    private static string Key(FeatureValue f) => Series.RadiomicsTimeSeries.KeyOf(f);
 }

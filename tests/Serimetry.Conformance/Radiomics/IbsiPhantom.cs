@@ -32,6 +32,13 @@ internal static class IbsiPhantom
         string ReferenceText, double Reference, double Tolerance)
     {
         /// <summary>
+        /// The aggregation code the engine writes for this row: IBSI's tables label the whole-volume (non-texture)
+        /// rows DHQ4, while features.csv leaves aggregationCode empty for them (IBSI: aggregation applies to texture).
+        /// </summary>
+        public string EngineAggregationCode =>
+            AggregationCode == Serimetry.Engine.Radiomics.IbsiAggregation.VolumeReferenceCode ? Serimetry.Engine.Radiomics.IbsiAggregation.None : AggregationCode;
+
+        /// <summary>
         /// IBSI rule for the phantom: within the tolerance when one is given; otherwise equal after rounding to
         /// the published significant digits (IBSI rounded contributions to 3 significant digits).
         /// </summary>

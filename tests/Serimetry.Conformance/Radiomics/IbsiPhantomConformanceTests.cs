@@ -26,7 +26,7 @@ public sealed class IbsiPhantomConformanceTests(ITestOutputHelper output)
     /// <summary>The computed value for a reference row: same IBSI code and aggregation, the name breaking ties.</summary>
     private static FeatureValue? Match(IbsiPhantom.Row row)
     {
-        var candidates = Computed.Value.Where(v => v.IbsiCode == row.Code && v.AggregationCode == row.AggregationCode).ToList();
+        var candidates = Computed.Value.Where(v => v.IbsiCode == row.Code && v.AggregationCode == row.EngineAggregationCode).ToList();
         return candidates.Count <= 1 ? candidates.FirstOrDefault() : candidates.FirstOrDefault(v => v.Feature == row.Feature);
     }
 

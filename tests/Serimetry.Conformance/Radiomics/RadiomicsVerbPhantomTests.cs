@@ -34,7 +34,7 @@ public sealed class RadiomicsVerbPhantomTests
             int pass = 0;
             foreach (var reference in IbsiPhantom.ReferenceRows())
             {
-                var hits = rows.Where(f => f[2] == reference.Code && f[3] == reference.AggregationCode).ToList();
+                var hits = rows.Where(f => f[2] == reference.Code && f[3] == reference.EngineAggregationCode).ToList();
                 var hit = hits.Count == 1 ? hits[0] : hits.FirstOrDefault(f => f[1] == reference.Feature);
                 if (hit is not null && reference.Accepts(double.Parse(hit[4], CultureInfo.InvariantCulture))) pass++;
             }

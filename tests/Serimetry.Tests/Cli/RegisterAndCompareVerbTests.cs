@@ -65,9 +65,19 @@ public sealed class RegisterAndCompareVerbTests : IDisposable
     [Fact]
     public void CompareWritesTheContractFilesAndRefusesBadPsa()
     {
+        // A test-retest feature table in which the voxel-counting volume repeats (ICC near 1) and joint maximum does
+        // not (ICC(2,1) = −2 by hand: equal subject means, so no between-subject variance): only the volume may feed
+        // the radiomic deltas (Shrout & Fleiss 1979 case 2; threshold 0.75 from Koo & Li 2016).
+        File.WriteAllText(P("retest.csv"), "subject,repeat,family,feature,ibsiCode,aggregationCode,value\n"
+            + "s1,r1,morphology,Volume (voxel counting),YEKZ,,100\ns1,r2,morphology,Volume (voxel counting),YEKZ,,101\n"
+            + "s2,r1,morphology,Volume (voxel counting),YEKZ,,200\ns2,r2,morphology,Volume (voxel counting),YEKZ,,199\n"
+            + "s3,r1,morphology,Volume (voxel counting),YEKZ,,300\ns3,r2,morphology,Volume (voxel counting),YEKZ,,302\n"
+            + "s1,r1,glcm,Joint maximum,GYBY,IAZD,1\ns1,r2,glcm,Joint maximum,GYBY,IAZD,2\n"
+            + "s2,r1,glcm,Joint maximum,GYBY,IAZD,2\ns2,r2,glcm,Joint maximum,GYBY,IAZD,1\n"
+            + "s3,r1,glcm,Joint maximum,GYBY,IAZD,1\ns3,r2,glcm,Joint maximum,GYBY,IAZD,2\n");
         var (code, stdout, err) = Run("compare", "--baseline", P("visit-0"), "--followup", P("visit-1"),
             "--gland", P("visit-0", "masks", "gland.nii.gz"), "--lesion", P("visit-0", "masks", "lesion.nii.gz"),
-            "--psa", "2022-03-14=4.0", "--psa", "2023-09-14=4.4", "--out", P("out"));
+            "--psa", "2022-03-14=4.0", "--psa", "2023-09-14=4.4", "--radiomics-robustness", P("retest.csv"), "--out", P("out"));
         Assert.True(code == 0, err + stdout);
         foreach (var f in new[] { "change.json", "measures.csv", "changes.csv", "report.html", "visit-1-t2w.png" })
             Assert.True(File.Exists(P("out", f)), f);
@@ -79,14 +89,23 @@ public sealed class RegisterAndCompareVerbTests : IDisposable
         // radiomics.csv: IBSI voxel-counting volume (YEKZ, mm³) of the lesion region equals lesion.volume (mL) of
         // the same visit — two independent implementations over the same re-fitted outline.
         var rows = File.ReadAllLines(P("out", "radiomics.csv"));
-        Assert.Equal("visit,date,region,family,feature,ibsiCode,aggregationCode,value", rows[0]);
+        Assert.Equal("visit,date,region,image,family,feature,ibsiCode,aggregationCode,value,robust", rows[0]);
         foreach (var v in report.Visits)
         {
-            var row = rows.Single(r => r.StartsWith($"{v.Index},", StringComparison.Ordinal) && r.Contains(",lesion.t2w,") && r.Contains(",YEKZ,"));
-            double mm3 = double.Parse(row[(row.LastIndexOf(',') + 1)..], System.Globalization.CultureInfo.InvariantCulture);
+            var row = rows.Single(r => r.StartsWith($"{v.Index},", StringComparison.Ordinal) && r.Contains(",lesion,t2w,") && r.Contains(",YEKZ,")).Split(',');
+            double mm3 = double.Parse(row[^2], System.Globalization.CultureInfo.InvariantCulture);
             Assert.Equal(v.Values["lesion.volume"].Value!.Value * 1000, mm3, 6);
+            Assert.Equal("true", row[^1]);
         }
-        Assert.True(File.Exists(P("out", "radiomics-deltas-visit-1.csv")));
+        Assert.All(rows.Skip(1).Where(r => r.Contains(",GYBY,")), r => Assert.EndsWith(",false", r));
+        // Deltas only from the robust feature; every other feature dropped with its reason.
+        var deltas = File.ReadAllLines(P("out", "radiomics-deltas-visit-1.csv")).Skip(1).ToList();
+        Assert.NotEmpty(deltas);
+        Assert.All(deltas, d => Assert.Contains(",YEKZ,", d));
+        var decisions = File.ReadAllLines(P("out", "radiomics-robustness.csv"));
+        Assert.Contains(decisions, d => d.Contains(",GYBY,IAZD,") && d.Contains(",false,ICC -2 < 0.75"));
+        Assert.Contains(decisions, d => d.Contains(",NI2N,IAZD,") && d.EndsWith(",false,not in the test-retest table"));
+        Assert.StartsWith("filtered: ICC(2,1) ≥ 0.75", report.Settings.Extra!["radiomics.robustness"]);
 
         var bad = Run("compare", "--baseline", P("visit-0"), "--followup", P("visit-1"), "--psa", "14/03/2022=4", "--out", P("out2"));
         Assert.Equal(CliHost.ExitUsage, bad.Code);

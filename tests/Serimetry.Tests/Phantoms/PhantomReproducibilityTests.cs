@@ -34,6 +34,30 @@ public sealed class PhantomReproducibilityTests
     }
 
     [Fact]
+    public void RadiomicFeaturesOfEveryRepeatFormATestRetestTable()
+    {
+        var spec = Tiny();
+        var report = PhantomReproducibility.Run(spec, 2, radiomics: new Serimetry.Engine.Radiomics.RadiomicsSettings());
+        var rows = report.RadiomicFeatures;
+        foreach (var region in new[] { "lesion", "gland" })
+        foreach (var image in new[] { "t2w", "adc" })
+        foreach (var repeat in new[] { 0, 1 })
+            Assert.Contains(rows, v => v.Region == region && v.Image == image && v.Repeat == repeat && v.Feature.IbsiCode == "YEKZ");
+        // The gland outline does not change between re-acquisitions: its IBSI voxel-counting volume (YEKZ) on T2w is
+        // the phantom mask's voxel count × voxel volume (Src: the phantom's analytic outline, counted independently).
+        var phantom = PhantomGenerator.Generate(spec with { Visits = 1 }).Visits[0];
+        double truthMm3 = phantom.GlandMask.Voxels.Count(b => b != 0) * phantom.T2w.Geometry.VoxelVolumeMm3;
+        var gland = rows.Where(v => v.Region == "gland" && v.Image == "t2w" && v.Feature.IbsiCode == "YEKZ").ToList();
+        Assert.All(gland, v => Assert.Equal(truthMm3, v.Feature.Value, 6));
+        // The table round-trips through its CSV form (what --radiomics-out writes and compare reads).
+        var w = new StringWriter();
+        Serimetry.Engine.Radiomics.Robustness.TestRetestTable.Write(w, rows);
+        var back = Serimetry.Engine.Radiomics.Robustness.TestRetestTable.Read(new StringReader(w.ToString()), "qa.csv");
+        Assert.Equal(rows.Count, back.Count);
+        Assert.Equal(rows[^1], back[^1]);
+    }
+
+    [Fact]
     public void ExceedsUsesTheLogBandForLogEntries()
     {
         var e = new RepeatabilityEntry("x", ErrorScale.Log, null, 0.17, "", "t");

@@ -20,7 +20,7 @@ public sealed class RadiomicsBadInputTests
         return (image, mask);
     }
 
-    private static double Get(IReadOnlyList<FeatureValue> f, string code, string agg = IbsiAggregation.Volume3D) =>
+    private static double Get(IReadOnlyList<FeatureValue> f, string code, string agg = IbsiAggregation.None) =>
         f.First(v => v.IbsiCode == code && v.AggregationCode == agg).Value;
 
     [Fact]
@@ -76,6 +76,12 @@ public sealed class RadiomicsBadInputTests
         Assert.Equal(27.0, Get(f, "YEKZ"), 12);          // morphology keeps the voxel
         Assert.Equal(12.0, Get(f, "Q4LE"), 12);          // mean of the 26 finite values: (9·11 + 8·12 + 9·13)/26
         Assert.DoesNotContain(f, v => v.Family == FamilyNames.IntensityStatistics && double.IsNaN(v.Value));
+
+        // Nothing finite left (NaN and ∞ alike): a clear error even when non-finite voxels are excluded.
+        var (allBad, roi) = Cube(4, (i, _, _) => i % 2 == 0 ? float.NaN : float.PositiveInfinity, (_, _, _) => true);
+        var none = Assert.Throws<InputFormatException>(() => RadiomicsExtractor.Extract(allBad, roi,
+            new RadiomicsSettings { NonFiniteIntensities = NonFinitePolicy.Exclude }));
+        Assert.Contains("every ROI voxel", none.Message);
     }
 
     [Fact]

@@ -31,35 +31,30 @@ public sealed class RadiomicsChainTests
     }
 
     [Fact]
-    public void Aligned_grid_keeps_the_grid_centre()
+    public void Resampling_aligns_grid_centres_so_a_linear_ramp_keeps_its_mean()
     {
-        // Src: IBSI 2.4 "align grid centres": n_b = ceil(n_a s_a / s_b), centres coincide.
-        var g = Geometry.Axial(new Size3(5, 4, 3), new Vec3(2, 2, 3), new Vec3(10, -4, 7));
-        var b = GridResampler.AlignedGrid(g, [1.0, 1.5, null]);
-        Assert.Equal(new Size3(10, 6, 3), b.Size);
-        Assert.True((b.CenterMm - g.CenterMm).Norm < 1e-9);
-    }
-
-    [Fact]
-    public void Trilinear_resampling_reproduces_a_linear_ramp_inside_the_grid()
-    {
-        // Common practice: trilinear interpolation is exact for functions linear in x, y and z.
-        var g = Geometry.Axial(new Size3(6, 5, 4), new Vec3(2, 2, 3), new Vec3(0, 0, 0));
-        var source = new double[g.VoxelCount];
-        for (int k = 0, n = 0; k < 4; k++) for (int j = 0; j < 5; j++) for (int i = 0; i < 6; i++, n++)
-            source[n] = 3 * (2 * i) + 2 * (2 * j) - (3 * k);
-        var target = GridResampler.AlignedGrid(g, [1.0, 1.0, 1.5]);
-        var values = GridResampler.Resample(source, g, target, InterpolationMethod.Linear);
-        int checkedPoints = 0;
-        for (int k = 0, n = 0; k < target.Size.Z; k++) for (int j = 0; j < target.Size.Y; j++) for (int i = 0; i < target.Size.X; i++, n++)
+        // Src: IBSI reference manual 2.4 "align grid centres" (n_b = ceil(n_a s_a / s_b), centres coincide) and
+        // common practice (trilinear interpolation is exact for a linear function; edge clamping is symmetric about the
+        // centre for a ramp): the ROI mean stays the ramp's value at the grid centre.
+        var g = Geometry.Axial(new Size3(6, 5, 4), new Vec3(2, 2, 3), new Vec3(10, -4, 7));
+        var image = new Volume<float>(g);
+        var mask = new Volume<byte>(g);
+        for (int k = 0; k < 4; k++) for (int j = 0; j < 5; j++) for (int i = 0; i < 6; i++)
         {
-            var p = target.IndexToPhysical(i, j, k);
-            var c = g.PhysicalToIndex(p);
-            if (c.X < 0 || c.Y < 0 || c.Z < 0 || c.X > 5 || c.Y > 4 || c.Z > 3) continue;   // edge clamping outside
-            Assert.Equal(3 * p.X + 2 * p.Y - p.Z, values[n], 9);
-            checkedPoints++;
+            var p = g.IndexToPhysical(i, j, k);
+            image[i, j, k] = (float)(3 * p.X + 2 * p.Y - p.Z);
+            mask[i, j, k] = 1;
         }
-        Assert.True(checkedPoints > 100);
+        var c = g.CenterMm;
+        var settings = new RadiomicsSettings
+        {
+            Families = [FeatureFamily.IntensityStatistics],
+            Resampling = new ResamplingSettings { SpacingMm = [1.0, 1.0, 1.5] },
+        };
+        var f = RadiomicsExtractor.Extract(image, mask, settings);
+        Assert.Equal(3 * c.X + 2 * c.Y - c.Z, f.Single(v => v.IbsiCode == "Q4LE").Value, 4);
+        Assert.Equal(6.0 * 5 * 4 * 12, RadiomicsExtractor.Extract(image, mask, settings with { Families = [FeatureFamily.Morphology] })
+            .Single(v => v.IbsiCode == "YEKZ").Value, 9);   // 12 × 10 × 8 voxels of 1.5 mm³: the original 1440 mm³
     }
 
     [Fact]
@@ -130,5 +125,23 @@ public sealed class RadiomicsChainTests
         Assert.Equal("family,feature,ibsiCode,aggregationCode,value", lines[0]);
         Assert.Equal("glcm,Joint maximum,GYBY,IAZD,0.5", lines[1]);
         Assert.Equal("glcm,\"Correlation, odd\",NI2N,IAZD,", lines[2]);
+    }
+
+    [Fact]
+    public void Aggregation_code_is_set_for_texture_features_only()
+    {
+        // Src: IBSI reference manual 3.1.1: aggregation methods apply to the texture matrices; the other families
+        // describe the whole 3D ROI (the features.csv contract: aggregationCode empty for them).
+        string[] texture = [FamilyNames.Glcm, FamilyNames.Glrlm, FamilyNames.Glszm, FamilyNames.Gldzm, FamilyNames.Ngtdm, FamilyNames.Ngldm];
+        var (image, mask) = RadiomicsTestData.Phantom();
+        var features = RadiomicsExtractor.Extract(image, mask, RadiomicsTestData.PhantomSettings);
+        var lines = FeatureCsvWriter.ToCsv(features).Split('\n', StringSplitOptions.RemoveEmptyEntries).Skip(1).Select(l => l.Split(',')).ToList();
+        Assert.Equal(features.Count, lines.Count);
+        for (int n = 0; n < features.Count; n++)
+        {
+            bool isTexture = texture.Contains(features[n].Family);
+            Assert.True(isTexture == (lines[n][^2].Length == 4), $"{features[n].Family}/{features[n].Feature}: aggregationCode '{lines[n][^2]}'");
+        }
+        Assert.Contains(features, f => f.Family == FamilyNames.Morphology);
     }
 }

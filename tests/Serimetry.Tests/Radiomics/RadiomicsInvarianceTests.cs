@@ -52,7 +52,7 @@ public sealed class RadiomicsInvarianceTests
     [InlineData(0, 2, 1)]
     public void Three_dimensional_features_are_unchanged_by_axis_permutations_of_the_isotropic_phantom(int a, int b, int c)
     {
-        static bool Is3D(FeatureValue f) => f.AggregationCode is IbsiAggregation.Volume3D or IbsiAggregation.ThreeDAveraged
+        static bool Is3D(FeatureValue f) => f.AggregationCode is IbsiAggregation.None or IbsiAggregation.ThreeDAveraged
             or IbsiAggregation.ThreeDMerged or IbsiAggregation.ThreeD;
         AssertSame(Run(false, false, false, [0, 1, 2]), Run(false, false, false, [a, b, c]), Is3D);
     }
