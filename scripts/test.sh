@@ -15,6 +15,8 @@ command -v elastix >/dev/null 2>&1 || need+=(elastix)
 command -v pvrg-jpeg >/dev/null 2>&1 || need+=(pvrg-jpeg)
 [ -x /usr/bin/chromium ] || need+=(chromium)
 ls /usr/lib/postgresql/*/bin/initdb >/dev/null 2>&1 || need+=(postgresql)
+command -v Orthanc >/dev/null 2>&1 || [ -x /usr/sbin/Orthanc ] || need+=(orthanc)
+[ -e /usr/share/orthanc/plugins/libOrthancDicomWeb.so ] || need+=(orthanc-dicomweb)
 if [ ${#need[@]} -gt 0 ]; then
   sudo_cmd=""; [ "$(id -u)" -ne 0 ] && sudo_cmd="sudo"
   echo "installing Debian packages: ${need[*]}"

@@ -23,9 +23,10 @@ internal static class ComparisonEndpoints
         g.MapGet("/{id}/files/{name}", GetFile).WithName("getComparisonFile");
     }
 
-    private static IResult Create(ComparisonSubmission body, HttpContext ctx, MetadataStore store, IBackgroundJobClient jobs, ILogger<ComparisonJob> log)
+    private static IResult Create(ComparisonSubmission body, HttpContext ctx, MetadataStore store, IBackgroundJobClient jobs, ServiceOptions options,
+        ILogger<ComparisonJob> log)
     {
-        var problem = Validate(body, store);
+        var problem = Validate(body, store, options);
         if (problem is not null) return Problems.BadRequest(problem);
         string id = ComparisonQueue.Enqueue(store, jobs, body);
         store.Audit(ctx.KeyName(), "submit-comparison", id);
@@ -33,8 +34,10 @@ internal static class ComparisonEndpoints
         return TypedResults.Accepted($"/v1/comparisons/{id}", new { comparisonId = id, state = "queued", caution = SoftwareInfo.Caution });
     }
 
-    private static string? Validate(ComparisonSubmission b, MetadataStore store)
+    private static string? Validate(ComparisonSubmission b, MetadataStore store, ServiceOptions options)
     {
+        if (b.Options?.StoreResults == true && options.DicomWebServer is null)
+            return "options.storeResults needs a DICOMweb server configured on the service (serve --dicomweb-server URL)";
         if (b.BaselineStudyId is null) return "baselineStudyId is required";
         if (b.FollowupStudyIds is not { Count: > 0 }) return "followupStudyIds needs at least one study id";
         if (b.Options?.FollowupPreset is { } preset && preset is not ("rigid" or "affine"))

@@ -14,6 +14,7 @@ using Serimetry.Api.Security;
 using Serimetry.Api.Storage;
 using Serimetry.Engine;
 using Serimetry.Engine.Core;
+using Serimetry.Engine.Io.DicomWeb;
 
 namespace Serimetry.Api.Hosting;
 
@@ -32,7 +33,8 @@ public static class ServiceHost
         ["--rate-limit"] = "Serimetry:RequestsPerMinute", ["--store"] = "Serimetry:Store", ["--connection"] = "Serimetry:Connection",
         ["--dicom-port"] = "Serimetry:DicomPort", ["--ae-title"] = "Serimetry:AeTitle", ["--dicom-address"] = "Serimetry:DicomAddress",
         ["--dicom-check-called-ae"] = "Serimetry:DicomCheckCalledAe", ["--dicom-calling-aes"] = "Serimetry:DicomCallingAeTitles",
-        ["--auto-compare"] = "Serimetry:AutoCompare",
+        ["--auto-compare"] = "Serimetry:AutoCompare", ["--dicomweb-server"] = "Serimetry:DicomWebServer",
+        ["--dicomweb-auth"] = "Serimetry:DicomWebAuthorization",
     };
 
     /// <summary>Reads <see cref="ServiceOptions"/> from the configuration sources and <paramref name="args"/>.</summary>
@@ -55,7 +57,8 @@ public static class ServiceHost
         var store = MetadataStore.Open(options, paths);
         ScratchCleanup.RemoveStale(paths, TimeSpan.FromHours(1));
         builder.Services.AddSingleton(options).AddSingleton(paths).AddSingleton(store)
-            .AddSingleton<BlobStore>().AddSingleton<StudyIntake>().AddTransient<ComparisonJob>().AddTransient<CallbackJob>();
+            .AddSingleton<BlobStore>().AddSingleton<StudyIntake>().AddTransient<ComparisonJob>().AddTransient<CallbackJob>()
+            .AddTransient<ResultStoreJob>();
         builder.Services.Configure<RouteHandlerOptions>(o => o.ThrowOnBadRequest = true);
         builder.Services.ConfigureHttpJsonOptions(o => o.SerializerOptions.PropertyNamingPolicy = System.Text.Json.JsonNamingPolicy.CamelCase);
         builder.Services.AddOpenApi();
@@ -63,6 +66,8 @@ public static class ServiceHost
         if (options.DicomPort > 0) DicomReceiverService.Add(builder.Services);
         KeyRateLimit.Add(builder.Services, options.RequestsPerMinute);
 
+        // Options validated at start-up: a wrong DICOMweb URL or Authorization value stops the service with a clear error.
+        if (options.DicomWebServer is not null) DicomWebOptions.Create(options.DicomWebServer, options.DicomWebAuthorization);
         var app = builder.Build();
         app.UseExceptionHandler(new ExceptionHandlerOptions { ExceptionHandler = Problems.HandleException });
         app.UseStatusCodePages(ctx => ctx.HttpContext.Response.HasStarted ? Task.CompletedTask

@@ -76,4 +76,13 @@ public sealed record ServiceOptions
     /// T2w series) and the baseline's gland mask is on file, queue a comparison (docs/dicom-network.md).
     /// </summary>
     public bool AutoCompare { get; init; } = true;
+
+    /// <summary>
+    /// DICOMweb root on which comparisons submitted with <c>options.storeResults</c> get their SR and SEG stored
+    /// (STOW-RS) when they finish; null: such submissions are refused.
+    /// </summary>
+    public string? DicomWebServer { get; init; }
+
+    /// <summary>Authorization header value for <see cref="DicomWebServer"/>, e.g. "Bearer TOKEN" (never logged).</summary>
+    public string? DicomWebAuthorization { get; init; }
 }

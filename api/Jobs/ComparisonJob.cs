@@ -27,7 +27,12 @@ public sealed class ComparisonJob(DataPaths paths, MetadataStore store, IBackgro
         if (rec is null || rec.State is "done" or "failed") return;
         string final = Path.Combine(paths.Comparisons, comparisonId);
         // An earlier attempt renamed its result into place but died before recording it: record it, compute nothing.
-        if (File.Exists(Path.Combine(final, "change.json"))) { Complete(comparisonId, "done", null); return; }
+        if (File.Exists(Path.Combine(final, "change.json")))
+        {
+            var earlier = JsonSerializer.Deserialize<ComparisonSubmission>(rec.RequestJson, ServiceJson.Options)!;
+            if (Complete(comparisonId, "done", null) && earlier.Options?.StoreResults == true) jobs.Enqueue<ResultStoreJob>(j => j.Store(comparisonId));
+            return;
+        }
         if (!store.StartComparison(comparisonId)) return;
         RemoveLeftovers(comparisonId);
         log.LogInformation("comparison {ComparisonId} started (attempt {Attempt})", comparisonId, rec.Runs + 1);
@@ -55,7 +60,8 @@ public sealed class ComparisonJob(DataPaths paths, MetadataStore store, IBackgro
             // first, rename(2) onto its non-empty folder fails and this attempt's copy is dropped: one result, never two.
             try { Directory.Move(tmp, final); }
             catch (IOException) when (Directory.Exists(final)) { Directory.Delete(tmp, recursive: true); }
-            Complete(comparisonId, "done", null);
+            if (Complete(comparisonId, "done", null) && submission.Options?.StoreResults == true)
+                jobs.Enqueue<ResultStoreJob>(j => j.Store(comparisonId));
         }
         catch (InputException e)
         {
@@ -70,11 +76,13 @@ public sealed class ComparisonJob(DataPaths paths, MetadataStore store, IBackgro
         }
     }
 
-    /// <summary>Records the end state once; a second attempt that finds it ended leaves it as it is.</summary>
-    private void Complete(string comparisonId, string state, string? problemJson)
+    /// <summary>Records the end state once (true); a second attempt that finds it ended leaves it as it is (false).</summary>
+    private bool Complete(string comparisonId, string state, string? problemJson)
     {
-        if (store.FinishComparison(comparisonId, state, problemJson)) log.LogInformation("comparison {ComparisonId} {State}", comparisonId, state);
+        bool ended = store.FinishComparison(comparisonId, state, problemJson);
+        if (ended) log.LogInformation("comparison {ComparisonId} {State}", comparisonId, state);
         else log.LogInformation("comparison {ComparisonId} had already ended; this attempt changes nothing", comparisonId);
+        return ended;
     }
 
     /// <summary>Deletes scratch folders of earlier attempts (a re-run means their node is gone).</summary>

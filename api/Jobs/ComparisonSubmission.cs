@@ -23,4 +23,6 @@ public sealed record ComparisonSubmission(
 /// <param name="WithinExam">Align ADC to T2w inside each exam (default true); false trusts the scanner geometry.</param>
 /// <param name="Radiomics">Compute the per-visit IBSI radiomic features (default true).</param>
 /// <param name="AllowDifferentPatients">Compare exams whose patient IDs differ (default false).</param>
-public sealed record ComparisonSettings(string? FollowupPreset = null, bool? WithinExam = null, bool? Radiomics = null, bool? AllowDifferentPatients = null);
+/// <param name="StoreResults">Store sr.dcm and seg-&lt;visit&gt;.dcm on the service's DICOMweb server when done (default false).</param>
+public sealed record ComparisonSettings(string? FollowupPreset = null, bool? WithinExam = null, bool? Radiomics = null, bool? AllowDifferentPatients = null,
+    bool? StoreResults = null);

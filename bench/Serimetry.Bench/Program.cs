@@ -7,6 +7,8 @@ if (args.Length > 0 && args[0] == "compare-speed")
     return Serimetry.Bench.CompareSpeed.Run(args[1..]);
 if (args.Length > 0 && args[0] == "radiomics-timing")
     return Serimetry.Bench.RadiomicsTiming.Run(args[1..]);
+if (args.Length > 0 && args[0] == "dicomweb-vs-curl")
+    return Serimetry.Bench.DicomWebVsCurl.Run(args[1..]);
 if (args.Length > 0 && args[0] == "compare-sweep")
     return Serimetry.Bench.CompareSweep.Run(args[1..]);
 if (args.Length > 0 && args[0] == "qa-reproducibility")

@@ -18,7 +18,7 @@ internal sealed class CompareVerb : IVerb
         "Measure change between a baseline exam and one or more follow-up exams",
         "--baseline EXAM --followup EXAM [--followup EXAM …] --out DIR [options]",
         [
-            new("baseline", "EXAM", "baseline exam: a folder with exam.json and NIfTI files, or a folder/.zip of DICOM files", Required: true),
+            new("baseline", "EXAM", "baseline exam: a folder with exam.json and NIfTI files, a folder/.zip of DICOM files, or dicomweb:STUDY-UID", Required: true),
             new("followup", "EXAM", "follow-up exam", Repeatable: true, Required: true),
             new("out", "DIR", "output folder (change.json, measures.csv, changes.csv, report.html + PNGs, seg-<visit>.dcm, sr.dcm, radiomics CSV)", Required: true),
             new("gland", "MASK", "baseline whole-gland outline: NIfTI, DICOM SEG or RTSTRUCT; MASK#ITEM picks a segment/ROI (docs/masks.md); default: the baseline exam's own"),
@@ -33,14 +33,19 @@ internal sealed class CompareVerb : IVerb
             new("radiomics-settings", "FILE", "IBSI feature settings (JSON, docs/radiomics.md) for radiomics.csv"),
             new("no-radiomics", null, "skip the per-visit radiomic features"),
             new("radiomics-robustness", "FILE", "test-retest feature table (CSV, e.g. from 'serimetry qa reproducibility --radiomics-out'): radiomic deltas use only features with ICC >= 0.75; default: unfiltered"),
+            DicomWebArgs.Server(required: false),
+            DicomWebArgs.Auth,
+            DicomWebArgs.Timeout,
         ],
         Details: "Exams are folders with exam.json or DICOM folders/zips (see README). Every follow-up is aligned to the baseline, the baseline\n" +
-                 "outlines are carried onto it and the lesion is re-fitted on its own images.");
+                 "outlines are carried onto it and the lesion is re-fitted on its own images. An exam given as dicomweb:STUDY-UID is fetched\n" +
+                 "from --server into a temporary folder (removed afterwards) and read as a DICOM exam.");
 
     public int Run(ParsedArgs args, CliContext ctx)
     {
-        var request = BuildRequest(args);
         var outDir = args.Required("out");
+        var (fetched, request) = DicomWebExams.Resolve(BuildRequest(args), args, ctx);
+        using var _ = fetched;
         var result = ComparePipeline.Run(request, ProgressPrinter.For(ctx));
         CompareOutputs.Write(result, outDir);
         PrintSummary(ctx.Out, result.Report);

@@ -8,7 +8,7 @@ internal sealed class ServeVerb : IVerb
     public VerbSpec Spec { get; } = new("serve",
         "Run the HTTP service (study intake, durable comparison jobs, results; docs/service.md) and optionally the DICOM receiver",
         "[--urls URL] [--data DIR] [--store sqlite|postgres --connection CONN] [--max-request-bytes N] [--workers N] [--job-timeout SECONDS] [--rate-limit N] " +
-        "[--dicom-port PORT] [--ae-title TITLE] [--dicom-address IP] [--dicom-check-called-ae true|false] [--dicom-calling-aes A,B] [--auto-compare true|false]",
+        "[--dicom-port PORT] [--ae-title TITLE] [--dicom-address IP] [--dicom-check-called-ae true|false] [--dicom-calling-aes A,B] [--auto-compare true|false] [--dicomweb-server URL]",
         [
             new("urls", "URL", "listening URLs, ';'-separated (default http://127.0.0.1:8080)"),
             new("data", "DIR", "data folder: databases, stored studies and results (default ./serimetry-data)"),
@@ -24,6 +24,8 @@ internal sealed class ServeVerb : IVerb
             new("dicom-check-called-ae", "BOOL", "refuse associations addressed to another AE title (default true)"),
             new("dicom-calling-aes", "LIST", "comma-separated calling AE titles allowed to send; empty = any (default)"),
             new("auto-compare", "BOOL", "queue a comparison when a received study follows an earlier one of the patient with baseline masks on file (default true)"),
+            new("dicomweb-server", "URL", "DICOMweb root where comparisons with options.storeResults get their SR and SEG stored (STOW-RS)"),
+            new("dicomweb-auth", "HEADER", "Authorization value for --dicomweb-server (better: Serimetry__DicomWebAuthorization in the environment)"),
         ],
         Details: "Settings also come from appsettings.json (section \"Serimetry\") and environment variables (Serimetry__DataDir, Serimetry__Connection, ...).");
 

@@ -13,6 +13,8 @@ internal static class VerbCatalog
         new QaVerb(),
         new QaAdcVerb(),
         new RadiomicsVerb(),
+        new FetchVerb(),
+        new PushVerb(),
         new ServeVerb(),
         new KeysVerb(),
     ];

@@ -9,8 +9,8 @@ internal static class Workflow
     /// <summary>Study and mask ids of the uploaded phantom (both visits, baseline gland and lesion outlines).</summary>
     public sealed record PhantomIds(string Baseline, string Followup, string Gland, string Lesion);
 
-    public static async Task<string> SubmitPhantomComparison(ApiClient api, string? callbackUrl = null) =>
-        await Submit(api, await UploadPhantom(api), callbackUrl);
+    public static async Task<string> SubmitPhantomComparison(ApiClient api, string? callbackUrl = null, JsonObject? options = null) =>
+        await Submit(api, await UploadPhantom(api), callbackUrl, options);
 
     /// <summary>Uploads both phantom visits and the baseline outlines (idempotent: the same ids every time).</summary>
     public static async Task<PhantomIds> UploadPhantom(ApiClient api)
