@@ -83,6 +83,16 @@ internal static class MaskOperations
         return result;
     }
 
+    /// <summary>The part of <paramref name="mask"/> under <paramref name="subGrid"/>, a crop of the mask's own grid (as <see cref="Crop{T}"/> makes).</summary>
+    public static Volume<byte> CropTo(Volume<byte> mask, Geometry subGrid)
+    {
+        var lo = mask.Geometry.PhysicalToIndex(subGrid.OriginMm);
+        var l = new VoxelIndex((int)Math.Round(lo.X), (int)Math.Round(lo.Y), (int)Math.Round(lo.Z));
+        var cropped = Crop(mask, l, new VoxelIndex(l.I + subGrid.Size.X - 1, l.J + subGrid.Size.Y - 1, l.K + subGrid.Size.Z - 1));
+        subGrid.RequireCongruent(cropped.Geometry, "the cropped image and the cropped mask");
+        return cropped;
+    }
+
     /// <summary>Physical centroid (LPS mm) of the non-zero voxels.</summary>
     public static Vec3 Centroid(Volume<byte> mask)
     {

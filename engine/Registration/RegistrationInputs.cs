@@ -48,6 +48,16 @@ internal static class RegistrationInputs
         return dilationMm > 0 ? MaskOperations.DilateBox(mask, dilationMm) : mask;
     }
 
+    /// <summary>Checks a lesion mask lies on the fixed grid and is not empty.</summary>
+    public static Volume<byte>? PrepareLesion(Volume<byte>? lesion, Geometry fixedGeometry)
+    {
+        if (lesion is null) return null;
+        fixedGeometry.RequireCongruent(lesion.Geometry, "the fixed image and the lesion mask");
+        foreach (var b in lesion.Voxels) if (b != 0) return lesion;
+        throw new RegistrationException("the lesion mask is empty (no non-zero voxel)",
+            "supply the baseline lesion outline, or register without a lesion mask");
+    }
+
     /// <summary>
     /// Throws when no part of the fixed region maps inside the moving image under the starting transform,
     /// which no optimizer can repair.

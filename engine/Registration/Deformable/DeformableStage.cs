@@ -16,11 +16,21 @@ namespace Serimetry.Engine.Registration.Deformable;
 /// </summary>
 internal static class DeformableStage
 {
+    /// <summary>
+    /// Runs the stage. <paramref name="lesion"/> (on <paramref name="f"/>'s grid, or null): with
+    /// <see cref="BSplineStageOptions.ProtectLesion"/> its grown region leaves the samples and its volume is kept.
+    /// </summary>
     public static (BSplineDeformation Deformation, List<LevelReport> Reports) Run(Volume<float> f, Volume<byte>? mask,
         Volume<float> m, AffineTransform bulk, BSplineStageOptions b, RegistrationOptions o, DateTime deadline,
-        List<string> warnings, IProgress<RegistrationProgress>? progress)
+        List<string> warnings, IProgress<RegistrationProgress>? progress, Volume<byte>? lesion = null)
     {
         var t = BSplineDeformation.Covering(f.Geometry, b.GridSpacingMm, bulk);
+        LesionVolumeTerm? keep = null;
+        if (lesion is not null && b.ProtectLesion)
+        {
+            mask = LesionExclusion(mask, lesion, b.LesionMarginMm);
+            if (b.LesionJacobianWeight > 0) keep = LesionVolumeTerm.FromMask(lesion);
+        }
         double finest = Math.Min(f.Geometry.SpacingMm.X, Math.Min(f.Geometry.SpacingMm.Y, f.Geometry.SpacingMm.Z));
         var reports = new List<LevelReport>();
         for (int li = 0; li < b.Levels.Count; li++)
@@ -30,7 +40,7 @@ internal static class DeformableStage
             int seed = level.Seed ?? o.Seed + 100 + li;
             var set = SampleSet.Draw(images.Fixed, images.Mask, level.Samples, seed);
             var metric = new BSplineMeanSquares(set, new LinearInterpolator(images.Moving), o.MaxThreads, t);
-            (t, var report) = RunLevel(li, level, metric, t, b, deadline, progress, seed, images);
+            (t, var report) = RunLevel(li, level, metric, keep, t, b, deadline, progress, seed, images);
             if (report.StopReason == StopReason.MetricNotFinite)
                 warnings.Add($"deformable level {li}: too few samples overlap the moving image; the level was skipped");
             reports.Add(report);
@@ -43,17 +53,36 @@ internal static class DeformableStage
 
     /// <summary>metric + weight · bending energy (+ the folding guard) and its gradient at <paramref name="t"/>.</summary>
     internal static double Objective(BSplineMeanSquares metric, BSplineDeformation t, double weight, Span<double> gradient,
-        double foldWeight = 0, double foldThreshold = 0)
+        double foldWeight = 0, double foldThreshold = 0, LesionVolumeTerm? lesion = null, double lesionWeight = 0)
     {
         double v = metric.Evaluate(t, gradient);
         if (!double.IsFinite(v)) return v;
         if (weight > 0) v += weight * BendingEnergy.Evaluate(t, weight, gradient);
         if (foldWeight > 0) v += foldWeight * JacobianPenalty.Evaluate(t, foldThreshold, foldWeight, gradient);
+        if (lesion is not null && lesionWeight > 0) v += lesionWeight * lesion.Evaluate(t, lesionWeight, gradient);
         return v;
     }
 
+    /// <summary>
+    /// The sample mask without the lesion grown by <paramref name="marginMm"/>: the lesion's own appearance may
+    /// change between visits, so it must not drive the deformation. Falls back to the mask when nothing would remain.
+    /// </summary>
+    internal static Volume<byte> LesionExclusion(Volume<byte>? mask, Volume<byte> lesion, double marginMm)
+    {
+        var grown = marginMm > 0 ? MaskOperations.DilateBox(lesion, marginMm) : lesion;
+        var result = new byte[grown.Voxels.Length];
+        var g = grown.Voxels;
+        long kept = 0;
+        for (int i = 0; i < result.Length; i++)
+        {
+            bool inside = mask is null || mask.Voxels[i] != 0;
+            if (inside && g[i] == 0) { result[i] = 1; kept++; }
+        }
+        return kept > 0 ? new Volume<byte>(lesion.Geometry, result) : mask ?? new Volume<byte>(lesion.Geometry, Enumerable.Repeat((byte)1, result.Length).ToArray());
+    }
+
     private static (BSplineDeformation, LevelReport) RunLevel(int li, RegistrationLevel level, BSplineMeanSquares metric,
-        BSplineDeformation t, BSplineStageOptions b, DateTime deadline, IProgress<RegistrationProgress>? progress, int seed,
+        LesionVolumeTerm? keep, BSplineDeformation t, BSplineStageOptions b, DateTime deadline, IProgress<RegistrationProgress>? progress, int seed,
         ResolutionLevel images)
     {
         var clock = Stopwatch.StartNew();
@@ -62,7 +91,8 @@ internal static class DeformableStage
         double Objective(ReadOnlySpan<double> q, Span<double> g)
         {
             q.CopyTo(c);
-            return DeformableStage.Objective(metric, work, b.BendingWeightMm2, g, b.FoldingPenaltyWeight, b.MinJacobian);
+            return DeformableStage.Objective(metric, work, b.BendingWeightMm2, g, b.FoldingPenaltyWeight, b.MinJacobian,
+                keep, b.LesionJacobianWeight);
         }
         double startValue = Objective(t.CoefficientArray, default);
         var settings = new OptimizerSettings(level.MaxIterations, level.MaxStepMm, level.MinStepMm, DeadlineUtc: deadline);
