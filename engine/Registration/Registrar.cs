@@ -72,7 +72,7 @@ public static class Registrar
         var result = Summarise(transform, metric!, reports, options, warnings, center, clock.Elapsed.TotalSeconds);
         if (options.BSpline is not { } bspline) return result;
         var croppedLesion = lesion is null ? null : MaskOperations.CropTo(lesion, f.Geometry);
-        var (deformation, deformReports) = DeformableStage.Run(f, mask, m, result.Transform, bspline, options, deadline, warnings,
+        var (deformation, deformReports, deformMetric) = DeformableStage.Run(f, mask, m, result.Transform, bspline, options, deadline, warnings,
             progress, croppedLesion);
         double? absorbed = lesion is null ? null : JacobianVolume.AbsorbedChange(deformation, lesion);
         if (absorbed is { } a && Math.Abs(a - 1) > AbsorbedChangeWarning)
@@ -81,6 +81,7 @@ public static class Registrar
         return result with
         {
             Deformation = deformation,
+            DeformationMetricName = deformMetric,
             AbsorbedChange = absorbed,
             DeformationLevels = deformReports,
             TransformType = "bspline",
@@ -178,9 +179,11 @@ public static class Registrar
         if (o.HistogramBins is < 8 or > 512)
             throw new InvalidParameterException($"histogram bins {o.HistogramBins} outside 8–512", "histogram bins");
         if (o.BSpline is { } b && (!(b.GridSpacingMm > 0) || !(b.BendingWeightMm2 >= 0) || b.Levels.Count == 0
-            || !(b.FoldingPenaltyWeight >= 0) || !double.IsFinite(b.MinJacobian)))
+            || !(b.FoldingPenaltyWeight >= 0) || !double.IsFinite(b.MinJacobian) || !(b.LesionMarginMm >= 0)
+            || !(b.LesionJacobianWeight >= 0) || b.Metric == MetricKind.Correlation))
             throw new InvalidParameterException("invalid B-spline stage settings", "bspline",
-                "positive grid spacing, non-negative bending and folding weights, a finite minimum Jacobian, at least one level");
+                "positive grid spacing, non-negative bending, folding and lesion weights and margin, a finite minimum Jacobian, "
+                + "at least one level, metric mean squares or Mattes MI");
         if (o.TimeLimit <= TimeSpan.Zero) throw new InvalidParameterException("the time limit must be positive", "time limit");
     }
 }

@@ -41,6 +41,9 @@ public sealed record RegistrationResult(
     /// </summary>
     public BSplineDeformation? Deformation { get; init; }
 
+    /// <summary>The B-spline stage's metric (<c>normalized-mean-squares</c> or <c>mattes-mi</c>); null without one.</summary>
+    public string? DeformationMetricName { get; init; }
+
     /// <summary>Levels of the B-spline stage (empty without one); <see cref="Levels"/> are the bulk stage's.</summary>
     public IReadOnlyList<LevelReport> DeformationLevels { get; init; } = [];
 

@@ -9,6 +9,17 @@ namespace Serimetry.Engine.Registration;
 /// </summary>
 public sealed record BSplineStageOptions
 {
+    /// <summary>
+    /// The stage's similarity metric: <see cref="MetricKind.MeanSquares"/> (gain-matched, normalised) or
+    /// <see cref="MetricKind.MattesMutualInformation"/> (the registration's <see cref="RegistrationOptions.HistogramBins"/>).
+    /// Null (default) chooses per image pair: mean squares when the fixed and moving intensities correlate
+    /// (Pearson r ≥ <see cref="SameContrastCorrelation"/>) at the bulk result, i.e. the same contrast, else mutual information.
+    /// </summary>
+    public MetricKind? Metric { get; init; }
+
+    /// <summary>Correlation of fixed and bulk-aligned moving intensities from which the pair counts as one contrast.</summary>
+    public double SameContrastCorrelation { get; init; } = 0.5;
+
     /// <summary>Control point spacing (mm, all axes). 10–15 mm resolves gland-scale shape change.</summary>
     public double GridSpacingMm { get; init; } = 12;
 

@@ -20,7 +20,7 @@ internal static class DeformableStage
     /// Runs the stage. <paramref name="lesion"/> (on <paramref name="f"/>'s grid, or null): with
     /// <see cref="BSplineStageOptions.ProtectLesion"/> its grown region leaves the samples and its volume is kept.
     /// </summary>
-    public static (BSplineDeformation Deformation, List<LevelReport> Reports) Run(Volume<float> f, Volume<byte>? mask,
+    public static (BSplineDeformation Deformation, List<LevelReport> Reports, string MetricName) Run(Volume<float> f, Volume<byte>? mask,
         Volume<float> m, AffineTransform bulk, BSplineStageOptions b, RegistrationOptions o, DateTime deadline,
         List<string> warnings, IProgress<RegistrationProgress>? progress, Volume<byte>? lesion = null)
     {
@@ -33,13 +33,20 @@ internal static class DeformableStage
         }
         double finest = Math.Min(f.Geometry.SpacingMm.X, Math.Min(f.Geometry.SpacingMm.Y, f.Geometry.SpacingMm.Z));
         var reports = new List<LevelReport>();
+        MetricKind? kind = b.Metric;
+        string name = "";
         for (int li = 0; li < b.Levels.Count; li++)
         {
             var level = b.Levels[li];
             var images = ResolutionLevel.Build(f, mask, m, level.ShrinkFactor, level.SmoothingSigmaMm, finest, o.MaxThreads);
             int seed = level.Seed ?? o.Seed + 100 + li;
             var set = SampleSet.Draw(images.Fixed, images.Mask, level.Samples, seed);
-            var metric = new BSplineMeanSquares(set, new LinearInterpolator(images.Moving), o.MaxThreads, t);
+            var interp = new LinearInterpolator(images.Moving);
+            kind ??= Correlation(set, interp, t) >= b.SameContrastCorrelation ? MetricKind.MeanSquares : MetricKind.MattesMutualInformation;
+            IBSplineMetric metric = kind == MetricKind.MattesMutualInformation
+                ? new BSplineMutualInformation(set, interp, o.MaxThreads, o.HistogramBins, Range(set.FixedValues), Range(images.Moving.Voxels))
+                : new BSplineMeanSquares(set, interp, o.MaxThreads, t);
+            name = metric.Name;
             (t, var report) = RunLevel(li, level, metric, keep, t, b, deadline, progress, seed, images);
             if (report.StopReason == StopReason.MetricNotFinite)
                 warnings.Add($"deformable level {li}: too few samples overlap the moving image; the level was skipped");
@@ -48,11 +55,35 @@ internal static class DeformableStage
         CheckFolding(t, f.Geometry, o.MaxThreads, warnings);
         if (reports.Exists(r => r.StopReason == StopReason.TimeLimit))
             warnings.Add("the time limit was reached before the deformable optimisation finished");
-        return (t, reports);
+        return (t, reports, name);
+    }
+
+    /// <summary>Pearson correlation of the fixed samples with the moving image at the starting map (0 when undefined).</summary>
+    internal static double Correlation(SampleSet set, LinearInterpolator moving, BSplineDeformation start)
+    {
+        double sf = 0, sm = 0, sff = 0, smm = 0, sfm = 0;
+        int n = 0;
+        for (int i = 0; i < set.Count; i++)
+        {
+            if (!moving.TryEvaluate(start.TransformPoint(set.Point(i)), out double m)) continue;
+            double f = set.FixedValues[i];
+            sf += f; sm += m; sff += f * f; smm += m * m; sfm += f * m;
+            n++;
+        }
+        if (n < 2) return 0;
+        double cov = sfm - sf * sm / n, vf = sff - sf * sf / n, vm = smm - sm * sm / n;
+        return vf > 0 && vm > 0 ? cov / Math.Sqrt(vf * vm) : 0;
+    }
+
+    private static (double Min, double Max) Range(float[] v)
+    {
+        float min = float.PositiveInfinity, max = float.NegativeInfinity;
+        foreach (var x in v) { if (x < min) min = x; if (x > max) max = x; }
+        return (min, max);
     }
 
     /// <summary>metric + weight · bending energy (+ the folding guard) and its gradient at <paramref name="t"/>.</summary>
-    internal static double Objective(BSplineMeanSquares metric, BSplineDeformation t, double weight, Span<double> gradient,
+    internal static double Objective(IBSplineMetric metric, BSplineDeformation t, double weight, Span<double> gradient,
         double foldWeight = 0, double foldThreshold = 0, LesionVolumeTerm? lesion = null, double lesionWeight = 0)
     {
         double v = metric.Evaluate(t, gradient);
@@ -81,7 +112,7 @@ internal static class DeformableStage
         return kept > 0 ? new Volume<byte>(lesion.Geometry, result) : mask ?? new Volume<byte>(lesion.Geometry, Enumerable.Repeat((byte)1, result.Length).ToArray());
     }
 
-    private static (BSplineDeformation, LevelReport) RunLevel(int li, RegistrationLevel level, BSplineMeanSquares metric,
+    private static (BSplineDeformation, LevelReport) RunLevel(int li, RegistrationLevel level, IBSplineMetric metric,
         LesionVolumeTerm? keep, BSplineDeformation t, BSplineStageOptions b, DateTime deadline, IProgress<RegistrationProgress>? progress, int seed,
         ResolutionLevel images)
     {
