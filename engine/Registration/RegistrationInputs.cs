@@ -1,5 +1,6 @@
 using System.Globalization;
 using Serimetry.Engine.Core;
+using Serimetry.Engine.Imaging.Morphology;
 
 namespace Serimetry.Engine.Registration;
 
@@ -45,7 +46,7 @@ internal static class RegistrationInputs
         if (count == 0)
             throw new RegistrationException($"the {which} mask is empty (no non-zero voxel)",
                 "supply a mask that outlines the region to align (e.g. the gland), or register without a mask");
-        return dilationMm > 0 ? MaskOperations.DilateBox(mask, dilationMm) : mask;
+        return dilationMm > 0 ? MaskOps.DilateBox(mask, dilationMm) : mask;
     }
 
     /// <summary>Checks a lesion mask lies on the fixed grid and is not empty.</summary>

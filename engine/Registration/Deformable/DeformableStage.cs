@@ -1,6 +1,7 @@
 using System.Diagnostics;
 using System.Globalization;
 using Serimetry.Engine.Core;
+using Serimetry.Engine.Imaging.Morphology;
 using Serimetry.Engine.Registration.Interpolation;
 using Serimetry.Engine.Registration.Metrics;
 using Serimetry.Engine.Registration.Optimizers;
@@ -100,7 +101,7 @@ internal static class DeformableStage
     /// </summary>
     internal static Volume<byte> LesionExclusion(Volume<byte>? mask, Volume<byte> lesion, double marginMm)
     {
-        var grown = marginMm > 0 ? MaskOperations.DilateBox(lesion, marginMm) : lesion;
+        var grown = marginMm > 0 ? MaskOps.DilateBox(lesion, marginMm) : lesion;
         var result = new byte[grown.Voxels.Length];
         var g = grown.Voxels;
         long kept = 0;
