@@ -142,7 +142,8 @@ public static class Registrar
         };
     }
 
-    private static (double Min, double Max) Range(float[] v)
+    /// <summary>Smallest and largest value (the histogram range of the Mattes MI metrics).</summary>
+    internal static (double Min, double Max) Range(float[] v)
     {
         float min = float.PositiveInfinity, max = float.NegativeInfinity;
         foreach (var x in v) { if (x < min) min = x; if (x > max) max = x; }

@@ -3,7 +3,7 @@ namespace Serimetry.Engine.Registration;
 /// <summary>
 /// The B-spline stage of the <c>deformable</c> preset, run after the bulk (rigid/affine) stage on the same
 /// (bias-corrected, mask-cropped) images. Metric: gain-matched mean squares normalised by the fixed variance
-/// (same-contrast follow-up T2w). Objective = metric + <see cref="BendingWeightMm2"/> · bending energy (mm⁻²)
+/// (same-contrast follow-up T2w) or Mattes mutual information (<see cref="Metric"/>). Objective = metric + <see cref="BendingWeightMm2"/> · bending energy (mm⁻²)
 /// + <see cref="FoldingPenaltyWeight"/> · folding guard, so the bending weight is in mm². Each level's <see cref="RegistrationLevel.MaxStepMm"/> caps the L-BFGS step
 /// (Euclidean norm over all coefficients, mm).
 /// </summary>

@@ -11,9 +11,10 @@ using Serimetry.Engine.Registration.Transforms;
 namespace Serimetry.Engine.Registration.Deformable;
 
 /// <summary>
-/// The B-spline stage: starts from the bulk affine result with zero displacement and minimises
-/// normalised mean squares + bending energy with L-BFGS over the coefficients, level by level on the
-/// registration pyramid, the control grid covering the (cropped) fixed domain.
+/// The B-spline stage: starts from the bulk affine result with zero displacement and minimises the metric
+/// (normalised mean squares or Mattes MI) + bending energy (+ folding guard, + optional lesion term) with L-BFGS
+/// over the coefficients, level by level on the registration pyramid, the control grid covering the (cropped)
+/// fixed domain; a lesion mask leaves the samples (grown by a margin) so lesion change is not absorbed.
 /// </summary>
 internal static class DeformableStage
 {
@@ -45,7 +46,7 @@ internal static class DeformableStage
             var interp = new LinearInterpolator(images.Moving);
             kind ??= Correlation(set, interp, t) >= b.SameContrastCorrelation ? MetricKind.MeanSquares : MetricKind.MattesMutualInformation;
             IBSplineMetric metric = kind == MetricKind.MattesMutualInformation
-                ? new BSplineMutualInformation(set, interp, o.MaxThreads, o.HistogramBins, Range(set.FixedValues), Range(images.Moving.Voxels))
+                ? new BSplineMutualInformation(set, interp, o.MaxThreads, o.HistogramBins, Registrar.Range(set.FixedValues), Registrar.Range(images.Moving.Voxels))
                 : new BSplineMeanSquares(set, interp, o.MaxThreads, t);
             name = metric.Name;
             (t, var report) = RunLevel(li, level, metric, keep, t, b, deadline, progress, seed, images);
@@ -74,13 +75,6 @@ internal static class DeformableStage
         if (n < 2) return 0;
         double cov = sfm - sf * sm / n, vf = sff - sf * sf / n, vm = smm - sm * sm / n;
         return vf > 0 && vm > 0 ? cov / Math.Sqrt(vf * vm) : 0;
-    }
-
-    private static (double Min, double Max) Range(float[] v)
-    {
-        float min = float.PositiveInfinity, max = float.NegativeInfinity;
-        foreach (var x in v) { if (x < min) min = x; if (x > max) max = x; }
-        return (min, max);
     }
 
     /// <summary>metric + weight · bending energy (+ the folding guard) and its gradient at <paramref name="t"/>.</summary>
