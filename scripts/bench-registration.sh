@@ -1,7 +1,7 @@
 #!/usr/bin/env bash
 # Rigid registration vs elastix (reference, Debian package) on analytic phantoms with known truth and
 # matched settings. Default: one 384x384x24 pair (speed); pass e.g. "--size 160 --cases 20" for the
-# accuracy sweep.
+# accuracy sweep; "--deformable" times rigid + B-spline (deformable preset) against elastix Euler + BSpline.
 set -euo pipefail
 root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 cd "$root"

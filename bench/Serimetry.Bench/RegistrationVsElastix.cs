@@ -1,6 +1,7 @@
 using System.Diagnostics;
 using System.Globalization;
 using Serimetry.Engine.Core;
+using Serimetry.Engine.Imaging.Morphology;
 using Serimetry.Engine.Registration;
 using Serimetry.Tests.Shared;
 
@@ -10,13 +11,15 @@ namespace Serimetry.Bench;
 /// Whole-pipeline comparison with elastix (Debian package, the reference registration toolbox): rigid
 /// registration of analytic-phantom pairs with known truth, matched settings (levels, shrink factors,
 /// samples, iterations, bins, mask, initialisation). Prints per-case TRE and wall time, then the ratio.
-/// Usage: registration-vs-elastix [--size 384] [--slices 24] [--cases 1] [--first-seed 301] [--no-elastix]
+/// Usage: registration-vs-elastix [--size 384] [--slices 24] [--cases 1] [--first-seed 301] [--no-elastix];
+/// with --deformable, rigid + B-spline instead (<see cref="DeformableVsElastix"/>).
 /// </summary>
 internal static class RegistrationVsElastix
 {
     public static int Run(string[] args)
     {
         int size = Arg(args, "--size", 384), slices = Arg(args, "--slices", 24), cases = Arg(args, "--cases", 1), first = Arg(args, "--first-seed", 301);
+        if (args.Contains("--deformable")) return DeformableVsElastix.Run(args, size, slices);
         bool withElastix = !args.Contains("--no-elastix") && ElastixReference.Available;
         var ci = CultureInfo.InvariantCulture;
         var grid = RegistrationPhantom.T2Grid(size, size, slices, 0.6, 3.0);
@@ -44,7 +47,7 @@ internal static class RegistrationVsElastix
                 var schedule = new ElastixReference.Schedule(
                     r.Levels.SelectMany(l => new[] { l.FixedShrink.X, l.FixedShrink.Y, l.FixedShrink.Z }).ToArray(),
                     options.Levels.Select(l => l.Samples).ToArray(), options.Levels.Max(l => l.MaxIterations), options.HistogramBins);
-                var e = ElastixReference.Run(f, m, MaskOperations.DilateBox(mask, options.MaskDilationMm), schedule, work);
+                var e = ElastixReference.Run(f, m, MaskOps.DilateBox(mask, options.MaskDilationMm), schedule, work);
                 Directory.Delete(work, true);
                 double etre = RegistrationPhantom.GlandTre(grid, e.Transform, truth);
                 refTime += e.WallSeconds; refWorst = Math.Max(refWorst, etre); worstGap = Math.Max(worstGap, tre - etre);

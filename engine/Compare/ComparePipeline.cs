@@ -137,7 +137,7 @@ public static class ComparePipeline
         try
         {
             var preset = RegistrationOptions.ForPreset(options.FollowupPreset) with { MaxThreads = options.MaxThreads };
-            toBaseline = Registrar.Register(baseline.T2w, exam.T2w, preset, gland0);
+            toBaseline = Registrar.Register(baseline.T2w, exam.T2w, preset, gland0, lesionMask: lesion0);
         }
         catch (RegistrationException e)
         {
@@ -235,7 +235,10 @@ public static class ComparePipeline
         if (v.ToBaseline is not { } r) return null;
         var flags = r.Warnings.Append($"stop: {r.StopReason}").ToList();
         var file = r.Deformation is null ? null : DeformationFileName(v.Index);
-        return new RegistrationRecord(TransformRecord.FromAffine(r.Transform, r.TransformType, file), r.MetricBefore, r.MetricAfter, null, flags);
+        return new RegistrationRecord(TransformRecord.FromAffine(r.Transform, r.TransformType, file), r.MetricBefore, r.MetricAfter, null, flags)
+        {
+            AbsorbedChange = r.AbsorbedChange,
+        };
     }
 
     /// <summary>Where a visit's full (B-spline) transform is written beside change.json.</summary>

@@ -5,47 +5,6 @@ namespace Serimetry.Engine.Registration;
 /// <summary>Mask helpers used by registration.</summary>
 internal static class MaskOperations
 {
-    /// <summary>Dilates by a box of ±<paramref name="marginMm"/> along each axis (separable running maximum).</summary>
-    public static Volume<byte> DilateBox(Volume<byte> mask, double marginMm)
-    {
-        var size = mask.Size;
-        var sp = mask.Geometry.SpacingMm;
-        var cur = (byte[])mask.Voxels.Clone();
-        for (int axis = 0; axis < 3; axis++)
-        {
-            int r = (int)Math.Floor(marginMm / sp[axis] + 1e-9);
-            if (r <= 0 || size[axis] == 1) continue;
-            cur = DilateAxis(cur, size, axis, r);
-        }
-        return new Volume<byte>(mask.Geometry, cur);
-    }
-
-    /// <summary>Per line: a voxel is set when a set voxel lies within r steps (forward and backward sweeps, O(n)).</summary>
-    private static byte[] DilateAxis(byte[] src, Size3 size, int axis, int r)
-    {
-        var dst = new byte[src.Length];
-        int stride = axis == 0 ? 1 : axis == 1 ? size.X : size.X * size.Y;
-        int n = size[axis];
-        int lines = src.Length / n;
-        for (int l = 0; l < lines; l++)
-        {
-            int b = axis == 0 ? l * size.X : axis == 1 ? (l / size.X) * size.X * size.Y + l % size.X : l;
-            int last = int.MinValue / 2;
-            for (int t = 0; t < n; t++)
-            {
-                if (src[b + t * stride] != 0) last = t;
-                if (t - last <= r) dst[b + t * stride] = 1;
-            }
-            last = int.MaxValue / 2;
-            for (int t = n - 1; t >= 0; t--)
-            {
-                if (src[b + t * stride] != 0) last = t;
-                if (last - t <= r) dst[b + t * stride] = 1;
-            }
-        }
-        return dst;
-    }
-
     /// <summary>
     /// The index box [lo, hi] (inclusive) of the non-zero voxels grown by <paramref name="marginMm"/> and
     /// clipped to the grid; null when the mask is empty.
@@ -81,6 +40,16 @@ internal static class MaskOperations
                 image.Voxels.AsSpan(image.LinearIndex(lo.I, lo.J + j, lo.K + k), size.X)
                     .CopyTo(result.Voxels.AsSpan(result.LinearIndex(0, j, k), size.X));
         return result;
+    }
+
+    /// <summary>The part of <paramref name="mask"/> under <paramref name="subGrid"/>, a crop of the mask's own grid (as <see cref="Crop{T}"/> makes).</summary>
+    public static Volume<byte> CropTo(Volume<byte> mask, Geometry subGrid)
+    {
+        var lo = mask.Geometry.PhysicalToIndex(subGrid.OriginMm);
+        var l = new VoxelIndex((int)Math.Round(lo.X), (int)Math.Round(lo.Y), (int)Math.Round(lo.Z));
+        var cropped = Crop(mask, l, new VoxelIndex(l.I + subGrid.Size.X - 1, l.J + subGrid.Size.Y - 1, l.K + subGrid.Size.Z - 1));
+        subGrid.RequireCongruent(cropped.Geometry, "the cropped image and the cropped mask");
+        return cropped;
     }
 
     /// <summary>Physical centroid (LPS mm) of the non-zero voxels.</summary>

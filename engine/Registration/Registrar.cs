@@ -1,4 +1,5 @@
 using System.Diagnostics;
+using System.Globalization;
 using Serimetry.Engine.Core;
 using Serimetry.Engine.Registration.Deformable;
 using Serimetry.Engine.Registration.Interpolation;
@@ -15,16 +16,22 @@ namespace Serimetry.Engine.Registration;
 /// </summary>
 public static class Registrar
 {
+    /// <summary>|absorbed change − 1| above which the result carries a warning (common practice: 10 %, a typical volume repeatability).</summary>
+    private const double AbsorbedChangeWarning = 0.10;
+
     /// <summary>
     /// Estimates the transform mapping fixed-image points (LPS mm) to moving-image points. Throws
     /// <see cref="RegistrationException"/> for inputs that cannot be registered (constant image, empty mask,
     /// no overlap), <see cref="GeometryMismatchException"/> when the mask is not on the fixed grid and
     /// <see cref="InvalidParameterException"/> for bad options; everything else comes back as data.
     /// Samples count only where the fixed mask is set and, when <paramref name="movingMask"/> is given, where
-    /// they land inside it.
+    /// they land inside it. <paramref name="lesionMask"/> (fixed grid) matters only to a B-spline stage: it keeps
+    /// the deformation from absorbing the lesion's change (<see cref="BSplineStageOptions.ProtectLesion"/>) and
+    /// is where <see cref="RegistrationResult.AbsorbedChange"/> is measured.
     /// </summary>
     public static RegistrationResult Register(Volume<float> fixedImage, Volume<float> moving, RegistrationOptions options,
-        Volume<byte>? fixedMask = null, IProgress<RegistrationProgress>? progress = null, Volume<byte>? movingMask = null)
+        Volume<byte>? fixedMask = null, IProgress<RegistrationProgress>? progress = null, Volume<byte>? movingMask = null,
+        Volume<byte>? lesionMask = null)
     {
         ArgumentNullException.ThrowIfNull(fixedImage);
         ArgumentNullException.ThrowIfNull(moving);
@@ -37,6 +44,7 @@ public static class Registrar
         var m = RegistrationInputs.Sanitize(moving, "moving", warnings);
         var mask = RegistrationInputs.PrepareMask(fixedMask, f.Geometry, options.MaskDilationMm);
         var mMask = RegistrationInputs.PrepareMask(movingMask, m.Geometry, options.MaskDilationMm, "moving");
+        var lesion = RegistrationInputs.PrepareLesion(lesionMask, f.Geometry);
         var fField = options.CorrectBias ? BiasFieldCorrection.Estimate(f) : null;
         var mField = options.CorrectBias ? BiasFieldCorrection.Estimate(m) : null;
         var center = TransformInitializer.RotationCenter(f, mask);
@@ -63,10 +71,18 @@ public static class Registrar
         }
         var result = Summarise(transform, metric!, reports, options, warnings, center, clock.Elapsed.TotalSeconds);
         if (options.BSpline is not { } bspline) return result;
-        var (deformation, deformReports) = DeformableStage.Run(f, mask, m, result.Transform, bspline, options, deadline, warnings, progress);
+        var croppedLesion = lesion is null ? null : MaskOperations.CropTo(lesion, f.Geometry);
+        var (deformation, deformReports, deformMetric) = DeformableStage.Run(f, mask, m, result.Transform, bspline, options, deadline, warnings,
+            progress, croppedLesion);
+        double? absorbed = lesion is null ? null : JacobianVolume.AbsorbedChange(deformation, lesion);
+        if (absorbed is { } a && Math.Abs(a - 1) > AbsorbedChangeWarning)
+            warnings.Add(string.Create(CultureInfo.InvariantCulture,
+                $"the deformation changes the lesion's volume by a factor {a:F2}; lesion change measured through it is understated by that factor"));
         return result with
         {
             Deformation = deformation,
+            DeformationMetricName = deformMetric,
+            AbsorbedChange = absorbed,
             DeformationLevels = deformReports,
             TransformType = "bspline",
             Warnings = warnings.ToArray(),
@@ -126,7 +142,8 @@ public static class Registrar
         };
     }
 
-    private static (double Min, double Max) Range(float[] v)
+    /// <summary>Smallest and largest value (the histogram range of the Mattes MI metrics).</summary>
+    internal static (double Min, double Max) Range(float[] v)
     {
         float min = float.PositiveInfinity, max = float.NegativeInfinity;
         foreach (var x in v) { if (x < min) min = x; if (x > max) max = x; }
@@ -163,9 +180,11 @@ public static class Registrar
         if (o.HistogramBins is < 8 or > 512)
             throw new InvalidParameterException($"histogram bins {o.HistogramBins} outside 8–512", "histogram bins");
         if (o.BSpline is { } b && (!(b.GridSpacingMm > 0) || !(b.BendingWeightMm2 >= 0) || b.Levels.Count == 0
-            || !(b.FoldingPenaltyWeight >= 0) || !double.IsFinite(b.MinJacobian)))
+            || !(b.FoldingPenaltyWeight >= 0) || !double.IsFinite(b.MinJacobian) || !(b.LesionMarginMm >= 0)
+            || !(b.LesionJacobianWeight >= 0) || b.Metric == MetricKind.Correlation))
             throw new InvalidParameterException("invalid B-spline stage settings", "bspline",
-                "positive grid spacing, non-negative bending and folding weights, a finite minimum Jacobian, at least one level");
+                "positive grid spacing, non-negative bending, folding and lesion weights and margin, a finite minimum Jacobian, "
+                + "at least one level, metric mean squares or Mattes MI");
         if (o.TimeLimit <= TimeSpan.Zero) throw new InvalidParameterException("the time limit must be positive", "time limit");
     }
 }

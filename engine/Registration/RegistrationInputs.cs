@@ -1,5 +1,6 @@
 using System.Globalization;
 using Serimetry.Engine.Core;
+using Serimetry.Engine.Imaging.Morphology;
 
 namespace Serimetry.Engine.Registration;
 
@@ -45,7 +46,17 @@ internal static class RegistrationInputs
         if (count == 0)
             throw new RegistrationException($"the {which} mask is empty (no non-zero voxel)",
                 "supply a mask that outlines the region to align (e.g. the gland), or register without a mask");
-        return dilationMm > 0 ? MaskOperations.DilateBox(mask, dilationMm) : mask;
+        return dilationMm > 0 ? MaskOps.DilateBox(mask, dilationMm) : mask;
+    }
+
+    /// <summary>Checks a lesion mask lies on the fixed grid and is not empty.</summary>
+    public static Volume<byte>? PrepareLesion(Volume<byte>? lesion, Geometry fixedGeometry)
+    {
+        if (lesion is null) return null;
+        fixedGeometry.RequireCongruent(lesion.Geometry, "the fixed image and the lesion mask");
+        foreach (var b in lesion.Voxels) if (b != 0) return lesion;
+        throw new RegistrationException("the lesion mask is empty (no non-zero voxel)",
+            "supply the baseline lesion outline, or register without a lesion mask");
     }
 
     /// <summary>

@@ -41,8 +41,18 @@ public sealed record RegistrationResult(
     /// </summary>
     public BSplineDeformation? Deformation { get; init; }
 
+    /// <summary>The B-spline stage's metric (<c>normalized-mean-squares</c> or <c>mattes-mi</c>); null without one.</summary>
+    public string? DeformationMetricName { get; init; }
+
     /// <summary>Levels of the B-spline stage (empty without one); <see cref="Levels"/> are the bulk stage's.</summary>
     public IReadOnlyList<LevelReport> DeformationLevels { get; init; } = [];
+
+    /// <summary>
+    /// With a lesion mask and a B-spline stage: the volume ratio the free-form part alone imposes on the lesion,
+    /// ∫_lesion det(∂T/∂x) / det A ÷ ∫_lesion 1 (<see cref="JacobianVolume.AbsorbedChange"/>). 1.0 = the
+    /// deformation absorbed none of the lesion's change; otherwise null.
+    /// </summary>
+    public double? AbsorbedChange { get; init; }
 
     /// <summary>The full map: the deformation when there is one, else the affine transform.</summary>
     public ISpatialTransform FullTransform => (ISpatialTransform?)Deformation ?? Transform;

@@ -69,6 +69,8 @@ public static class TransformFile
         {
             root["bspline"] = BSplineJson.ToJson(d);
             root["quality"]!["deformationLevels"] = new JsonArray(r.DeformationLevels.Select(Level).ToArray());
+            root["quality"]!["deformationMetric"] = r.DeformationMetricName;
+            if (r.AbsorbedChange is { } absorbed) root["quality"]!["absorbedChange"] = Finite(absorbed);
         }
         return root.ToJsonString(Indented);
     }

@@ -26,6 +26,12 @@ public sealed record VisitRecord(
 public sealed record RegistrationRecord(TransformRecord Transform, double? MetricBefore, double? MetricAfter, double? GlandDice,
     IReadOnlyList<string> Flags)
 {
+    /// <summary>
+    /// With a deformable alignment and a baseline lesion: the lesion volume ratio the deformation's free-form part
+    /// alone imposes (1.0 = it absorbed none of the lesion's change); null otherwise.
+    /// </summary>
+    public double? AbsorbedChange { get; init; }
+
     /// <summary>The baseline's own record: identity, no metrics.</summary>
     public static RegistrationRecord Identity { get; } = new(TransformRecord.Identity, null, null, null, []);
 }

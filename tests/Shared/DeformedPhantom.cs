@@ -11,6 +11,9 @@ namespace Serimetry.Tests.Shared;
 /// </summary>
 public sealed record DeformedPhantom(double Kappa, int Axis, double SigmaMm, Vec3 ShiftMm) : ISpatialTransform
 {
+    /// <summary>Lesion semi-axes scale in the follow-up (1 = unchanged; ∛2 = volume ×2.0, grown in place).</summary>
+    public double LesionScale { get; init; } = 1;
+
     public Vec3 TransformPoint(Vec3 b) => b + ShiftMm + Displacement(b);
 
     private Vec3 Displacement(Vec3 b)
@@ -37,7 +40,7 @@ public sealed record DeformedPhantom(double Kappa, int Axis, double SigmaMm, Vec
     }
 
     /// <summary>Renders the follow-up on <paramref name="grid"/>: three sub-samples across the slice as the phantom does, Rician noise σ.</summary>
-    public Volume<float> Render(Geometry grid, double noise, int seed)
+    public Volume<float> Render(Geometry grid, double noise, int seed, PhantomContrast contrast = PhantomContrast.T2w)
     {
         var vol = new Volume<float>(grid);
         Parallel.For(0, grid.Size.Z, k =>
@@ -48,7 +51,7 @@ public sealed record DeformedPhantom(double Kappa, int Axis, double SigmaMm, Vec
                 {
                     double acc = 0;
                     for (int s = 0; s < 3; s++)
-                        acc += RegistrationPhantom.Value(Inverse(grid.IndexToPhysical(new Vec3(i, j, k + (s - 1) / 3.0 * 0.8))), PhantomContrast.T2w);
+                        acc += RegistrationPhantom.Value(Inverse(grid.IndexToPhysical(new Vec3(i, j, k + (s - 1) / 3.0 * 0.8))), contrast, LesionScale);
                     double v = acc / 3;
                     double n1 = noise * Gaussian(rng), n2 = noise * Gaussian(rng);
                     vol[i, j, k] = (float)Math.Sqrt((v + n1) * (v + n1) + n2 * n2);

@@ -18,6 +18,10 @@ public static class RegistrationPhantom
     public static readonly Vec3 GlandCenter = new(4, -6, 12);
     private static readonly Vec3 GlandAxes = new(22, 16, 18);
 
+    /// <summary>Centre and semi-axes (mm) of the lesion at baseline (it is the last blob painted).</summary>
+    public static readonly Vec3 LesionCenter = GlandCenter + new Vec3(9, 9, -4);
+    public static readonly Vec3 LesionAxes = new(6, 5, 6);
+
     private readonly record struct Blob(Vec3 Center, Vec3 Axes, double T2, double Adc);
 
     // Painted in order; later objects cover earlier ones. Values: T2w-like and ADC-like (arbitrary units).
@@ -33,16 +37,20 @@ public static class RegistrationPhantom
         new(GlandCenter + new Vec3(0, -6, 40), new Vec3(30, 25, 22), 0.95, 1.0),     // bladder (urine)
         new(GlandCenter, GlandAxes, 0.8, 0.75),                                       // gland: peripheral zone
         new(GlandCenter + new Vec3(0, -4, 2), new Vec3(15, 10, 13), 0.45, 0.55),     // transition zone
-        new(GlandCenter + new Vec3(9, 9, -4), new Vec3(6, 5, 6), 0.3, 0.25),         // lesion
+        new(LesionCenter, LesionAxes, 0.3, 0.25),                                     // lesion
     ];
 
-    /// <summary>The analytic image value at body point <paramref name="b"/> (LPS mm).</summary>
-    public static double Value(Vec3 b, PhantomContrast contrast)
+    /// <summary>
+    /// The analytic image value at body point <paramref name="b"/> (LPS mm); the lesion's semi-axes are scaled by
+    /// <paramref name="lesionScale"/> (a lesion that grew in place by lesionScale³ in volume, replacing gland tissue).
+    /// </summary>
+    public static double Value(Vec3 b, PhantomContrast contrast, double lesionScale = 1)
     {
         double v = 0;
-        foreach (var blob in Blobs)
+        for (int q = 0; q < Blobs.Length; q++)
         {
-            double s = Membership(b, blob.Center, blob.Axes);
+            var blob = Blobs[q];
+            double s = Membership(b, blob.Center, q == Blobs.Length - 1 ? blob.Axes * lesionScale : blob.Axes);
             if (s > 0) v += s * ((contrast == PhantomContrast.T2w ? blob.T2 : blob.Adc) - v);
         }
         var d = b - GlandCenter;
@@ -56,6 +64,24 @@ public static class RegistrationPhantom
     {
         var d = b - GlandCenter;
         return Sq(d.X / GlandAxes.X) + Sq(d.Y / GlandAxes.Y) + Sq(d.Z / GlandAxes.Z) <= 1;
+    }
+
+    /// <summary>Whether a body point is inside the lesion ellipsoid scaled by <paramref name="scale"/>.</summary>
+    public static bool InLesion(Vec3 b, double scale = 1)
+    {
+        var d = b - LesionCenter;
+        return Sq(d.X / (LesionAxes.X * scale)) + Sq(d.Y / (LesionAxes.Y * scale)) + Sq(d.Z / (LesionAxes.Z * scale)) <= 1;
+    }
+
+    /// <summary>The baseline lesion mask on a grid (voxel centres inside the lesion).</summary>
+    public static Volume<byte> LesionMask(Geometry grid)
+    {
+        var m = new Volume<byte>(grid);
+        for (int k = 0; k < grid.Size.Z; k++)
+            for (int j = 0; j < grid.Size.Y; j++)
+                for (int i = 0; i < grid.Size.X; i++)
+                    if (InLesion(grid.IndexToPhysical(i, j, k))) m[i, j, k] = 1;
+        return m;
     }
 
     /// <summary>A prostate-like T2w grid: 160x160x24 at 0.6x0.6x3 mm (or another size/spacing), centred near the gland.</summary>

@@ -16,6 +16,51 @@ public static class MaskOps
         return result;
     }
 
+    /// <summary>
+    /// Dilates by a box of ±<paramref name="marginMm"/> along each axis (separable running maximum, O(n) per axis):
+    /// much faster than <see cref="Dilate"/> for large margins, used where a generous neighbourhood is all that
+    /// matters (registration masks and crops).
+    /// </summary>
+    public static Volume<byte> DilateBox(Volume<byte> mask, double marginMm)
+    {
+        var size = mask.Size;
+        var sp = mask.Geometry.SpacingMm;
+        var cur = (byte[])mask.Voxels.Clone();
+        for (int axis = 0; axis < 3; axis++)
+        {
+            int r = (int)Math.Floor(marginMm / sp[axis] + 1e-9);
+            if (r <= 0 || size[axis] == 1) continue;
+            cur = DilateAxis(cur, size, axis, r);
+        }
+        return new Volume<byte>(mask.Geometry, cur);
+    }
+
+    /// <summary>Per line: a voxel is set when a set voxel lies within r steps (forward and backward sweeps, O(n)).</summary>
+    private static byte[] DilateAxis(byte[] src, Size3 size, int axis, int r)
+    {
+        var dst = new byte[src.Length];
+        int stride = axis == 0 ? 1 : axis == 1 ? size.X : size.X * size.Y;
+        int n = size[axis];
+        int lines = src.Length / n;
+        for (int l = 0; l < lines; l++)
+        {
+            int b = axis == 0 ? l * size.X : axis == 1 ? (l / size.X) * size.X * size.Y + l % size.X : l;
+            int last = int.MinValue / 2;
+            for (int t = 0; t < n; t++)
+            {
+                if (src[b + t * stride] != 0) last = t;
+                if (t - last <= r) dst[b + t * stride] = 1;
+            }
+            last = int.MaxValue / 2;
+            for (int t = n - 1; t >= 0; t--)
+            {
+                if (src[b + t * stride] != 0) last = t;
+                if (last - t <= r) dst[b + t * stride] = 1;
+            }
+        }
+        return dst;
+    }
+
     /// <summary>Voxels of the mask farther than <paramref name="radiusMm"/> from any outside voxel.</summary>
     public static Volume<byte> Erode(Volume<byte> mask, double radiusMm)
     {

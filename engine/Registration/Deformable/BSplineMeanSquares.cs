@@ -13,7 +13,7 @@ namespace Serimetry.Engine.Registration.Deformable;
 /// support of the B-spline: each sample touches 3x64 coefficients, accumulated per partition and merged in
 /// partition order (the same result with any thread count).
 /// </summary>
-internal sealed class BSplineMeanSquares
+internal sealed class BSplineMeanSquares : IBSplineMetric
 {
     private const int MinChunk = 512;
     private readonly SampleSet _samples;
@@ -40,6 +40,8 @@ internal sealed class BSplineMeanSquares
         _invVar = 1 / var;
         Gain = nm > 0 && sm > 0 ? meanF / (sm / nm) : 1;
     }
+
+    public string Name => "normalized-mean-squares";
 
     /// <summary>The factor applied to moving intensities.</summary>
     public double Gain { get; }

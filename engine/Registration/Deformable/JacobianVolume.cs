@@ -32,4 +32,15 @@ public static class JacobianVolume
         if (n == 0) throw new InvalidParameterException("the mask is empty", "mask", "a mask with at least one voxel set");
         return sum / n;
     }
+
+    /// <summary>
+    /// How much volume change the free-form part alone puts on the masked region (the lesion):
+    /// <see cref="JacobianVolumeChange"/> divided by the bulk transform's det. 1.0 = nothing absorbed; 1.6 means
+    /// the deformation itself expands the region by 60 %, change a lesion measurement after alignment no longer sees.
+    /// </summary>
+    public static double AbsorbedChange(BSplineDeformation deformation, Volume<byte> mask)
+    {
+        ArgumentNullException.ThrowIfNull(deformation);
+        return JacobianVolumeChange(deformation, mask) / deformation.Bulk.Linear.Determinant;
+    }
 }

@@ -1,4 +1,5 @@
 using Serimetry.Engine.Core;
+using Serimetry.Engine.Imaging.Morphology;
 using Serimetry.Engine.Registration;
 using Serimetry.Tests.Shared;
 using Xunit;
@@ -31,7 +32,7 @@ public class ElastixBSplineComparisonTests(ITestOutputHelper output)
         {
             var rigidSchedule = string.Join(" ", ours.Levels.SelectMany(l => new[] { l.FixedShrink.X, l.FixedShrink.Y, l.FixedShrink.Z }));
             var bsplineSchedule = string.Join(" ", ours.DeformationLevels.SelectMany(l => new[] { l.FixedShrink.X, l.FixedShrink.Y, l.FixedShrink.Z }));
-            var elastix = ElastixBSplineRunner.Run(f, m, MaskOperations.DilateBox(gland, options.MaskDilationMm), rigidSchedule, bsplineSchedule,
+            var elastix = ElastixBSplineRunner.Run(f, m, MaskOps.DilateBox(gland, options.MaskDilationMm), rigidSchedule, bsplineSchedule,
                 options.BSpline!.GridSpacingMm, work);
             double ourError = RegistrationPhantom.GlandTre(grid, ours.FullTransform, truth);
             double refError = RegistrationPhantom.GlandTre(grid, elastix.Transform, truth);

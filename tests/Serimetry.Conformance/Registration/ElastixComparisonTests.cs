@@ -1,4 +1,5 @@
 using Serimetry.Engine.Core;
+using Serimetry.Engine.Imaging.Morphology;
 using Serimetry.Engine.Registration;
 using Serimetry.Tests.Shared;
 using Xunit;
@@ -36,7 +37,7 @@ public class ElastixComparisonTests(ITestOutputHelper output)
             var schedule = new ElastixReference.Schedule(
                 ours.Levels.SelectMany(l => new[] { l.FixedShrink.X, l.FixedShrink.Y, l.FixedShrink.Z }).ToArray(),
                 options.Levels.Select(l => l.Samples).ToArray(), options.Levels.Max(l => l.MaxIterations), options.HistogramBins);
-            var elastix = ElastixReference.Run(fixedImage, moving, MaskOperations.DilateBox(mask, options.MaskDilationMm), schedule, work);
+            var elastix = ElastixReference.Run(fixedImage, moving, MaskOps.DilateBox(mask, options.MaskDilationMm), schedule, work);
             double ourTre = RegistrationPhantom.GlandTre(grid, ours.Transform, truth);
             double refTre = RegistrationPhantom.GlandTre(grid, elastix.Transform, truth);
             output.WriteLine($"seed {seed}: Serimetry TRE {ourTre:F3} mm in {ours.ElapsedSeconds:F2} s; elastix TRE {refTre:F3} mm in {elastix.WallSeconds:F2} s ({elastix.ParameterLine})");

@@ -25,6 +25,7 @@ public class DeformableAccuracyTests(ITestOutputHelper output)
         var r = Registrar.Register(f, m, RegistrationOptions.ForPreset("deformable"), gland);
         Assert.NotNull(r.Deformation);
         Assert.Equal("bspline", r.TransformType);
+        Assert.Equal("normalized-mean-squares", r.DeformationMetricName); // same contrast: the automatic choice
 
         double rigidError = RegistrationPhantom.GlandTre(Grid, r.Transform, truth);
         double error = RegistrationPhantom.GlandTre(Grid, r.Deformation, truth);
@@ -38,6 +39,53 @@ public class DeformableAccuracyTests(ITestOutputHelper output)
         Assert.True(Math.Abs(ratio / trueRatio - 1) <= 0.03, $"Jacobian volume ratio {ratio:F4} vs true {trueRatio:F4}");
         Assert.True(minDet > 0, $"the deformation folds: min det {minDet}");
     }
+
+    [Fact]
+    public void MutualInformationStageMatchesMeanSquaresOnSameContrast()
+    {
+        // Src: synthetic truth — the compression case above with the B-spline stage forced to Mattes MI.
+        var truth = new DeformedPhantom(0.10, 1, 25, new Vec3(1.2, -0.8, 1.5));
+        var f = RegistrationPhantom.Render(Grid, AffineTransform.Identity, PhantomContrast.T2w, 0.02, 11);
+        var m = truth.Render(Grid, 0.02, 12);
+        var gland = RegistrationPhantom.GlandMask(Grid);
+        var preset = RegistrationOptions.ForPreset("deformable");
+        var r = Registrar.Register(f, m, preset with { BSpline = preset.BSpline! with { Metric = MetricKind.MattesMutualInformation } }, gland);
+        var (error, ratio, trueRatio, minDet) = Score(r, truth, gland);
+        double rigidError = RegistrationPhantom.GlandTre(Grid, r.Transform, truth);
+        output.WriteLine($"{r.DeformationMetricName}: error {error:F3} mm (affine part {rigidError:F3}), volume ratio {ratio:F4} vs true {trueRatio:F4}, min det {minDet:F3}, {r.ElapsedSeconds:F1} s");
+        Assert.Equal("mattes-mi", r.DeformationMetricName);
+        // Src: issue 3 acceptance — mean displacement error ≤ 1 mm, gland Jacobian within 3 % of truth, no folding.
+        Assert.True(error <= 1.0 && error < 0.6 * rigidError, $"mean displacement error {error:F3} mm (affine part {rigidError:F3})");
+        Assert.True(Math.Abs(ratio / trueRatio - 1) <= 0.03, $"Jacobian volume ratio {ratio:F4} vs true {trueRatio:F4}");
+        Assert.True(minDet > 0, $"the deformation folds: min det {minDet}");
+    }
+
+    [Fact]
+    public void AcrossContrastsThePresetChoosesMutualInformation()
+    {
+        // Src: synthetic truth — the compression case with the follow-up rendered in the phantom's ADC-like contrast:
+        // the automatic choice must pick MI, and MI must beat mean squares forced on the same pair.
+        var truth = new DeformedPhantom(0.10, 1, 25, new Vec3(1.2, -0.8, 1.5));
+        var f = RegistrationPhantom.Render(Grid, AffineTransform.Identity, PhantomContrast.T2w, 0.02, 11);
+        var m = truth.Render(Grid, 0.02, 12, PhantomContrast.Adc);
+        var gland = RegistrationPhantom.GlandMask(Grid);
+        var preset = RegistrationOptions.ForPreset("deformable");
+        var mi = Registrar.Register(f, m, preset, gland);
+        var msq = Registrar.Register(f, m, preset with { BSpline = preset.BSpline! with { Metric = MetricKind.MeanSquares } }, gland);
+        var (miError, miRatio, trueRatio, minDet) = Score(mi, truth, gland);
+        var (msqError, msqRatio, _, _) = Score(msq, truth, gland);
+        output.WriteLine($"MI: error {miError:F3} mm, ratio {miRatio:F4}; mean squares: {msqError:F3} mm, {msqRatio:F4}; true ratio {trueRatio:F4}; min det {minDet:F3}");
+        Assert.Equal("mattes-mi", mi.DeformationMetricName);
+        // Src: issue 3 acceptance — mean displacement error ≤ 1 mm; no folding.
+        Assert.True(miError <= 1.0, $"MI error {miError:F3} mm");
+        Assert.True(miError < msqError, $"MI {miError:F3} mm vs mean squares {msqError:F3} mm");
+        Assert.True(Math.Abs(miRatio - trueRatio) < Math.Abs(msqRatio - trueRatio), $"MI ratio {miRatio:F4}, mean squares {msqRatio:F4}, true {trueRatio:F4}");
+        Assert.True(minDet > 0, $"the deformation folds: min det {minDet}");
+    }
+
+    private static (double Error, double Ratio, double TrueRatio, double MinDet) Score(RegistrationResult r, DeformedPhantom truth, Volume<byte> gland) =>
+        (RegistrationPhantom.GlandTre(Grid, r.Deformation!, truth), JacobianVolume.JacobianVolumeChange(r.Deformation!, gland),
+            TrueVolumeRatio(truth, gland), Min(r.Deformation!.JacobianDeterminantField(Grid).Voxels));
 
     [Fact]
     public void DoesNotInventDeformationInNoise()

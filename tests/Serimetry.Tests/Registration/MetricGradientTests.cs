@@ -1,4 +1,5 @@
 using Serimetry.Engine.Core;
+using Serimetry.Engine.Imaging.Morphology;
 using Serimetry.Engine.Registration;
 using Serimetry.Engine.Registration.Interpolation;
 using Serimetry.Engine.Registration.Metrics;
@@ -20,7 +21,7 @@ public class MetricGradientTests(ITestOutputHelper output)
         var grid = RegistrationPhantom.T2Grid(64, 64, 24, 1.5, 3);
         var f = RegistrationPhantom.Render(grid, AffineTransform.Identity, PhantomContrast.T2w, 0.02, 1);
         var m = RegistrationPhantom.Render(grid, AffineTransform.Identity, PhantomContrast.T2w, 0.02, 2);
-        return (f, m, MaskOperations.DilateBox(RegistrationPhantom.GlandMask(grid), 10));
+        return (f, m, MaskOps.DilateBox(RegistrationPhantom.GlandMask(grid), 10));
     });
 
     internal static ImageMetric Create(MetricKind kind, Volume<float> f, Volume<float> m, Volume<byte>? mask, int samples)

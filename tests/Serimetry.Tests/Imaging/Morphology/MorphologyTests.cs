@@ -60,6 +60,19 @@ public class MorphologyTests
     }
 
     [Fact]
+    public void BoxDilationGrowsEachAxisByWholeVoxelsWithinTheMargin()
+    {
+        // Src: definition — a box of ±3 mm holds ±6 voxels at 0.5 mm and ±1 voxel at 2 mm (floor of margin/spacing);
+        // it contains the Euclidean ball of the same radius.
+        var m = new Volume<byte>(Geometry.Axial(new Size3(31, 31, 11), new Vec3(0.5, 0.5, 2), Vec3.Zero));
+        m[15, 15, 5] = 1;
+        m[2, 30, 0] = 1; // clipped at the grid border: rows 0..8, columns 24..30, slices 0..1
+        var box = MaskOps.DilateBox(m, 3.0);
+        Assert.Equal(13 * 13 * 3 + 9 * 7 * 2, MaskOps.Count(box));
+        Assert.Equal(MaskOps.Count(MaskOps.Dilate(m, 3.0)), MaskOps.Count(MaskOps.And(box, MaskOps.Dilate(m, 3.0))));
+    }
+
+    [Fact]
     public void ComponentsTouchingKeepsOnlySeededComponentsAndFillHolesClosesCavities()
     {
         var m = new Volume<byte>(Geometry.Axial(new Size3(12, 12, 12), new Vec3(1, 1, 1), Vec3.Zero));

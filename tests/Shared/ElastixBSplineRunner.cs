@@ -3,9 +3,7 @@ using System.Globalization;
 using Serimetry.Engine.Core;
 using Serimetry.Engine.Io.MetaImage;
 using Serimetry.Engine.Registration.Transforms;
-using Serimetry.Tests.Shared;
-
-namespace Serimetry.Conformance.Registration;
+namespace Serimetry.Tests.Shared;
 
 /// <summary>
 /// Runs elastix (general-purpose registration toolbox, Debian package <c>elastix</c>) with two parameter
@@ -18,21 +16,26 @@ internal static partial class ElastixBSplineRunner
 {
     public sealed record Outcome(ISpatialTransform Transform, double WallSeconds);
 
+    /// <summary>
+    /// Runs both stages; <paramref name="rigidSamples"/>/<paramref name="bsplineSamples"/> are elastix's
+    /// NumberOfSpatialSamples (one value, or one per level) and the iteration counts its MaximumNumberOfIterations.
+    /// </summary>
     public static Outcome Run(Volume<float> fixedImage, Volume<float> moving, Volume<byte> mask, string rigidSchedule, string bsplineSchedule,
-        double gridSpacingMm, string workDir)
+        double gridSpacingMm, string workDir, string rigidSamples = "4000", string bsplineSamples = "10000", int rigidIterations = 200,
+        int bsplineIterations = 200)
     {
         Directory.CreateDirectory(workDir);
         Directory.CreateDirectory(Path.Combine(workDir, "out"));
         MetaImageWriter.Write(Path.Combine(workDir, "fixed.mhd"), fixedImage);
         MetaImageWriter.Write(Path.Combine(workDir, "moving.mhd"), moving);
         MetaImageWriter.Write(Path.Combine(workDir, "mask.mhd"), mask);
-        File.WriteAllText(Path.Combine(workDir, "rigid.txt"), Common(rigidSchedule, 4000) + """
+        File.WriteAllText(Path.Combine(workDir, "rigid.txt"), Common(rigidSchedule, rigidSamples, rigidIterations) + """
             (Transform "EulerTransform")
             (AutomaticScalesEstimation "true")
             (AutomaticTransformInitialization "true")
             (AutomaticTransformInitializationMethod "GeometricalCenter")
             """);
-        File.WriteAllText(Path.Combine(workDir, "bspline.txt"), Common(bsplineSchedule, 10000) + string.Create(CultureInfo.InvariantCulture, $"""
+        File.WriteAllText(Path.Combine(workDir, "bspline.txt"), Common(bsplineSchedule, bsplineSamples, bsplineIterations) + string.Create(CultureInfo.InvariantCulture, $"""
             (Transform "BSplineTransform")
             (BSplineTransformSplineOrder 3)
             (FinalGridSpacingInPhysicalUnits {gridSpacingMm})
@@ -79,11 +82,11 @@ internal static partial class ElastixBSplineRunner
             new Size3((int)size[0], (int)size[1], (int)size[2]), dir, Numbers(Field(text, "TransformParameters")));
     }
 
-    private static string Common(string schedule, int samples) => ElastixReference.CommonSettings + $"""
+    private static string Common(string schedule, string samples, int iterations) => ElastixReference.CommonSettings + $"""
         (NumberOfHistogramBins 32)
         (NumberOfResolutions {schedule.Split(' ', StringSplitOptions.RemoveEmptyEntries).Length / 3})
         (ImagePyramidSchedule {schedule})
-        (MaximumNumberOfIterations 200)
+        (MaximumNumberOfIterations {iterations})
         (NumberOfSpatialSamples {samples})
 
         """;
