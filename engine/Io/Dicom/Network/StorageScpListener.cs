@@ -56,7 +56,9 @@ public sealed class StorageScpListener
         try
         {
             client.NoDelay = true;
-            await using var stream = client.GetStream();
+            // The stream belongs to the client, closed in finally only after the slot is free: a peer that saw the
+            // close must find the slot free when it connects again.
+            var stream = client.GetStream();
             summary = await new StorageScpSession(stream, _options, _handler, peer).RunAsync(busy, ct);
         }
         catch (Exception e) when (e is not OutOfMemoryException)
@@ -66,7 +68,7 @@ public sealed class StorageScpListener
         }
         finally
         {
-            if (!busy) _slots.Release(); // before the close, so a peer that saw the close finds the slot free
+            if (!busy) _slots.Release();
             client.Dispose();
             Interlocked.Decrement(ref _open);
         }
