@@ -11,5 +11,7 @@ VOLUME ["/data"]
 USER app
 ENTRYPOINT ["dotnet", "serimetry.dll"]
 EXPOSE 8080
+# DICOM receiver (C-ECHO, C-STORE) when started with --dicom-port 11112 --dicom-address 0.0.0.0
+EXPOSE 11112
 # Create a key first: docker run --rm -v DATA:/data IMAGE keys create --name pacs --data /data
 CMD ["serve", "--urls", "http://0.0.0.0:8080", "--data", "/data"]

@@ -41,6 +41,20 @@ public sealed class RegisterAndCompareVerbTests : IDisposable
     }
 
     [Fact]
+    public void DeformableRegisterWithTheLesionReportsHowMuchChangeItAbsorbed()
+    {
+        // Src: phantom truth — visit 1 differs from baseline by a rigid motion and lesion growth ×1.3 only, so a
+        // deformation that stays out of the lesion absorbs none of it: absorbedChange ≈ 1 (±10 %, the warning limit).
+        var (code, stdout, err) = Run("register", "--fixed", P("visit-0", "t2w.nii.gz"), "--moving", P("visit-1", "t2w.nii.gz"),
+            "--preset", "deformable", "--fixed-mask", P("visit-0", "masks", "gland.nii.gz"),
+            "--lesion", P("visit-0", "masks", "lesion.nii.gz"), "--out", P("deformable.json"));
+        Assert.True(code == 0, err);
+        var quality = System.Text.Json.Nodes.JsonNode.Parse(File.ReadAllText(P("deformable.json")))!["quality"]!;
+        Assert.InRange((double)quality["absorbedChange"]!, 0.9, 1.1);
+        Assert.Contains("absorbed change over the lesion", stdout);
+    }
+
+    [Fact]
     public void RegisterRecoversTheTrueMotion()
     {
         var (code, _, err) = Run("register", "--fixed", P("visit-0", "t2w.nii.gz"), "--moving", P("visit-1", "t2w.nii.gz"),
