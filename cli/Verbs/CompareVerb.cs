@@ -32,7 +32,8 @@ internal sealed class CompareVerb : IVerb
             new("plugins", "DIR", "load measure plugins (assemblies with public IMeasure types) from DIR"),
             new("radiomics-settings", "FILE", "IBSI feature settings (JSON, docs/radiomics.md) for radiomics.csv"),
             new("no-radiomics", null, "skip the per-visit radiomic features"),
-            new("radiomics-robustness", "FILE", "test-retest feature table (CSV, e.g. from 'serimetry qa reproducibility --radiomics-out'): radiomic deltas use only features with ICC >= 0.75; default: unfiltered"),
+            new("radiomics-robustness", "FILE", "test-retest feature table (CSV, e.g. from 'serimetry qa reproducibility --radiomics-out'): radiomic deltas use only features with ICC(2,1) at or above --radiomics-icc; default: unfiltered"),
+            new("radiomics-icc", "X", "ICC(2,1) a radiomic feature needs to count as robust (default 0.75, 'good' reliability, Koo & Li 2016)"),
             DicomWebArgs.Server(required: false),
             DicomWebArgs.Auth,
             DicomWebArgs.Timeout,
@@ -58,6 +59,8 @@ internal sealed class CompareVerb : IVerb
         var profile = args.Get("profile") is string p ? RepeatabilityProfile.Load(p) : RepeatabilityProfile.LoadDefault();
         var psa = args.GetAll("psa").Select(ParsePsa).ToList();
         PsaKinetics.Validate(psa);
+        if (args.Has("radiomics-icc") && !args.Has("radiomics-robustness"))
+            throw new UsageException("option '--radiomics-icc' needs '--radiomics-robustness FILE' (the test-retest table the ICC comes from)");
         var options = new ComparisonOptions(
             AllowDifferentPatients: args.Has("allow-different-patients"),
             FollowupPreset: args.Get("followup-preset") ?? "rigid",
@@ -65,7 +68,8 @@ internal sealed class CompareVerb : IVerb
             MaxThreads: args.GetInt("threads", -1, 1, 256),
             PluginFolder: args.Get("plugins"),
             Radiomics: RadiomicsOption(args),
-            RadiomicsRobustness: args.Get("radiomics-robustness") is string rr ? RobustnessReference.FromTestRetestFile(rr) : null);
+            RadiomicsRobustness: args.Get("radiomics-robustness") is string rr ? RobustnessReference.FromTestRetestFile(rr,
+                args.GetDouble("radiomics-icc", FeatureRobustness.DefaultIccThreshold, 0, 1)) : null);
         if (options.FollowupPreset is not ("rigid" or "affine" or "deformable"))
             throw new UsageException($"option '--followup-preset' must be rigid, affine or deformable, got '{options.FollowupPreset}'");
         return new CompareRequest(args.Required("baseline"), args.GetAll("followup"), args.Get("gland"), args.Get("lesion"), psa, profile, options);

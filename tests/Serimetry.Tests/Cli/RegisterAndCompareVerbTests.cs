@@ -127,5 +127,10 @@ public sealed class RegisterAndCompareVerbTests : IDisposable
         Assert.Equal(CliHost.ExitUsage, bad.Code);
         Assert.Contains("YYYY-MM-DD", bad.Err);
         Assert.False(Directory.Exists(P("out2")));
+
+        var icc = Run("compare", "--baseline", P("visit-0"), "--followup", P("visit-1"), "--radiomics-icc", "0.9", "--out", P("out3"));
+        Assert.Equal(CliHost.ExitUsage, icc.Code);
+        Assert.Contains("--radiomics-robustness", icc.Err);
+        Assert.False(Directory.Exists(P("out3")));
     }
 }
