@@ -1,3 +1,4 @@
+using Serimetry.Conformance.Dicom;
 using Serimetry.Engine.Io.Dicom;
 using Serimetry.Engine.Io.Dicom.Writing;
 using Serimetry.Engine.Reports.Dicom;
