@@ -63,7 +63,7 @@ public static class PhantomDicomWriter
         Acquisition(adc, v.DwiAcquisition, "EP", "SK\\SP", 4000, 80);
         MrSeriesWriter.Write(Path.Combine(dicomDir, "adc"), "adc", v.Adc, adc, seed + "/adc", 1, uidRoot);
         return new SegSourceReference(DicomUids.FromName(seed + "/t2w/series", uidRoot), MrSeriesWriter.MrImageStorage, t2Uids,
-            DicomUids.FromName(seed + "/frame-of-reference", uidRoot), "PHANTOM^" + subject.SubjectId);
+            DicomUids.FromName(seed + "/frame-of-reference", uidRoot), "PHANTOM^" + subject.SubjectId, StudyTime, StudyId(v));
     }
 
     /// <summary>The truth masks (gland, lesion) as a binary SEG on the T2w series (docs/dicom-out.md).</summary>
@@ -77,6 +77,12 @@ public static class PhantomDicomWriter
         ], new DicomStudyInfo(subject.SubjectId, null, DicomUids.FromName(seed + "/study", uidRoot), v.Date), t2, uidRoot, 900, seed + "/seg");
     }
 
+    /// <summary>Every phantom visit is an exam at 09:00 on the visit date.</summary>
+    private const string StudyTime = "090000";
+
+    /// <summary>Study ID (0020,0010): the visit's number, counted from 1.</summary>
+    private static string StudyId(PhantomVisit v) => (v.Index + 1).ToString(CultureInfo.InvariantCulture);
+
     private static DicomWriteDataset Study(PhantomSubject subject, PhantomVisit v, string seed, string uidRoot) =>
         new DicomWriteDataset()
             .Add(DicomTags.PatientName, DicomVR.PN, "PHANTOM^" + subject.SubjectId)
@@ -85,9 +91,9 @@ public static class PhantomDicomWriter
             .Add(DicomTags.PatientSex, DicomVR.CS, "M")
             .Add(DicomTags.StudyInstanceUID, DicomVR.UI, DicomUids.FromName(seed + "/study", uidRoot))
             .Add(DicomTags.StudyDate, DicomVR.DA, v.Date.ToString("yyyyMMdd", CultureInfo.InvariantCulture))
-            .Add(DicomTags.StudyTime, DicomVR.TM, "090000")
+            .Add(DicomTags.StudyTime, DicomVR.TM, StudyTime)
             .Add(DicomTags.ReferringPhysicianName, DicomVR.PN, "")
-            .Add(DicomTags.StudyID, DicomVR.SH, (v.Index + 1).ToString(CultureInfo.InvariantCulture))
+            .Add(DicomTags.StudyID, DicomVR.SH, StudyId(v))
             .Add(DicomTags.AccessionNumber, DicomVR.SH, "")
             .Add(DicomTags.StudyDescription, DicomVR.LO, "Synthetic prostate MRI phantom")
             .Add(DicomTags.FrameOfReferenceUID, DicomVR.UI, DicomUids.FromName(seed + "/frame-of-reference", uidRoot))

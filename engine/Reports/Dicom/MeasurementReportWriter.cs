@@ -9,8 +9,10 @@ namespace Serimetry.Engine.Reports.Dicom;
 /// <param name="Seg">Identifiers of the SEG.</param>
 /// <param name="SegmentNumbers">Segment number by label.</param>
 /// <param name="PatientName">Patient's Name of the source images when the exam is DICOM, else null.</param>
+/// <param name="StudyTime">Study Time of the source images when the exam is DICOM and has one, else null.</param>
+/// <param name="StudyId">Study ID of the source images when the exam is DICOM and has one, else null.</param>
 public sealed record VisitSegReference(int VisitIndex, DicomObjectIds Seg, IReadOnlyDictionary<string, int> SegmentNumbers,
-    string? PatientName = null);
+    string? PatientName = null, string? StudyTime = null, string? StudyId = null);
 
 /// <summary>
 /// Writes a change report as a Comprehensive SR (SOP Class 1.2.840.10008.5.1.4.1.1.88.33, PS3.3 A.35.3)
@@ -53,11 +55,7 @@ public static class MeasurementReportWriter
         ds.Add(DicomTags.SOPClassUID, DicomVR.UI, ComprehensiveSr)
           .Add(DicomTags.SOPInstanceUID, DicomVR.UI, DicomUids.New(uidRoot))
           .Add(DicomTags.InstanceNumber, DicomVR.IS, 1)
-          // PS3.3 C.12.1.1.2.1: a local coding scheme is identified in the Coding Scheme Identification Sequence.
-          .AddSequence(DicomTags.CodingSchemeIdentificationSequence, new DicomWriteDataset()
-              .Add(DicomTags.CodingSchemeDesignator, DicomVR.SH, SrCodes.Scheme)
-              .Add(DicomTags.CodingSchemeName, DicomVR.ST, "Serimetry measures (ids of change.json, docs/dicom-out.md)")
-              .Add(DicomTags.CodingSchemeResponsibleOrganization, DicomVR.ST, SoftwareInfo.Name))
+          .AddSequence(DicomTags.CodingSchemeIdentificationSequence, SrCodes.SchemeIdentification())
           .Add(DicomTags.CompletionFlag, DicomVR.CS, "COMPLETE")
           .Add(DicomTags.VerificationFlag, DicomVR.CS, "UNVERIFIED")
           .AddSequence(DicomTags.ReferencedPerformedProcedureStepSequence)

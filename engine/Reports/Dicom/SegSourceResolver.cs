@@ -29,7 +29,10 @@ public static class SegSourceResolver
         var sopClass = first.GetStringOrNull(DicomTags.SOPClassUID)?.Trim();
         if (sopClass is null) return null;
         var reference = new SegSourceReference(series.SeriesInstanceUid, sopClass, [.. stack.Slices.Select(s => s.SopInstanceUid!)],
-            first.GetStringOrNull(DicomTags.FrameOfReferenceUID)?.Trim(), first.GetStringOrNull(DicomTags.PatientName));
+            first.GetStringOrNull(DicomTags.FrameOfReferenceUID)?.Trim(), first.GetStringOrNull(DicomTags.PatientName),
+            NonEmpty(first.GetStringOrNull(DicomTags.StudyTime)), NonEmpty(first.GetStringOrNull(DicomTags.StudyID)));
         return (studies[0].StudyInstanceUid, reference);
     }
+
+    private static string? NonEmpty(string? s) => string.IsNullOrWhiteSpace(s) ? null : s.Trim();
 }

@@ -35,11 +35,17 @@ public sealed record SegmentDefinition(string Label, DicomCode Category, DicomCo
 /// <param name="SopInstanceUids">Instance of slice k of the grid, k = 0 … Z−1.</param>
 /// <param name="FrameOfReferenceUid">Frame of Reference UID of the source images.</param>
 /// <param name="PatientName">Patient's Name of the source images, repeated so the SEG files under the same patient.</param>
+/// <param name="StudyTime">Study Time (0008,0030) of the source images, repeated because the SEG joins their study.</param>
+/// <param name="StudyId">Study ID (0020,0010) of the source images, repeated for the same reason.</param>
 public sealed record SegSourceReference(string SeriesInstanceUid, string SopClassUid, IReadOnlyList<string> SopInstanceUids,
-    string? FrameOfReferenceUid, string? PatientName = null);
+    string? FrameOfReferenceUid, string? PatientName = null, string? StudyTime = null, string? StudyId = null);
 
-/// <summary>Patient and study attributes the SEG repeats from its source (PS3.3 C.7.1.1, C.7.2.1).</summary>
-public sealed record DicomStudyInfo(string? PatientId, string? PatientName, string? StudyInstanceUid, DateOnly? StudyDate);
+/// <summary>
+/// Patient and study attributes the SEG, SR and RTSTRUCT repeat from their source study (PS3.3 C.7.1.1, C.7.2.1).
+/// Study Time and Study ID are Type 2: written empty only when the source study has none (e.g. NIfTI exams).
+/// </summary>
+public sealed record DicomStudyInfo(string? PatientId, string? PatientName, string? StudyInstanceUid, DateOnly? StudyDate,
+    string? StudyTime = null, string? StudyId = null);
 
 /// <summary>The identifiers of a written object (for the SR's evidence and references).</summary>
 public sealed record DicomObjectIds(string StudyInstanceUid, string SeriesInstanceUid, string SopClassUid, string SopInstanceUid)

@@ -1,15 +1,30 @@
+using Serimetry.Engine.Io.Dicom;
+using Serimetry.Engine.Io.Dicom.Writing;
+
 namespace Serimetry.Engine.Reports.Dicom;
 
 /// <summary>
 /// Concept codes of the measurement report. DCM codes are from PS3.16 annex D, SCT and UCUM codes as used by
 /// TID 1500/1411 (from memory unless noted). Measures without a standard code use our own coding scheme
-/// designator <see cref="Scheme"/> ("99SRMT", private per PS3.16 8.2: designators starting with "99" are
-/// local), whose code value is the measure id of change.json (docs/dicom-out.md lists them).
+/// designator <see cref="Scheme"/> ("99SRMT": PS3.3 8.2 reserves designators beginning with "99" for private
+/// or local coding schemes), whose code value is the measure id of change.json (docs/dicom-out.md lists them).
 /// </summary>
 internal static class SrCodes
 {
     /// <summary>Our local coding scheme designator.</summary>
     public const string Scheme = "99SRMT";
+
+    /// <summary>
+    /// The item of the Coding Scheme Identification Sequence (0008,0110; PS3.3 C.12.1.1.2) declaring our private scheme:
+    /// designator, name, version (= the change.json schema version, whose measure ids are the code values) and
+    /// responsible organization. The scheme is not registered, so Coding Scheme Registry (0008,0112) is absent, and
+    /// no Coding Scheme UID (0008,010C) has been assigned to it (both Type 1C).
+    /// </summary>
+    public static DicomWriteDataset SchemeIdentification() => new DicomWriteDataset()
+        .Add(DicomTags.CodingSchemeDesignator, DicomVR.SH, Scheme)
+        .Add(DicomTags.CodingSchemeVersion, DicomVR.SH, ChangeReportJson.SchemaVersion)
+        .Add(DicomTags.CodingSchemeName, DicomVR.ST, "Serimetry measures (measure ids of change.json, docs/dicom-out.md)")
+        .Add(DicomTags.CodingSchemeResponsibleOrganization, DicomVR.ST, "Serimetry project");
 
     public static readonly DicomCode MeasurementReport = new("126000", "DCM", "Imaging Measurement Report");
     public static readonly DicomCode Language = new("121049", "DCM", "Language of Content Item and Descendants");

@@ -30,7 +30,7 @@ internal static class VisitSegOutputs
             var file = $"seg-{v.Index}.dcm";
             var ids = SegmentationWriter.Write(Path.Combine(outDir, file), grid, segments, study, reference, uidRoot);
             written.Add(new VisitSegReference(v.Index, ids, segments.Select((s, i) => (s.Label, Number: i + 1)).ToDictionary(x => x.Label, x => x.Number),
-                reference?.PatientName));
+                reference?.PatientName, reference?.StudyTime, reference?.StudyId));
         }
         return written;
     }
@@ -43,8 +43,10 @@ internal static class VisitSegOutputs
         string outDir, string uidRoot = DicomUids.UuidRoot)
     {
         var last = visits[^1].Exam;
+        var lastSeg = segs.LastOrDefault(s => s.VisitIndex == visits[^1].Index);
         MeasurementReportWriter.Write(Path.Combine(outDir, "sr.dcm"), report,
-            new DicomStudyInfo(last.PatientId, segs.LastOrDefault(s => s.PatientName is not null)?.PatientName, last.StudyInstanceUid, last.Date),
+            new DicomStudyInfo(last.PatientId, segs.LastOrDefault(s => s.PatientName is not null)?.PatientName, last.StudyInstanceUid, last.Date,
+                lastSeg?.StudyTime, lastSeg?.StudyId),
             segs, uidRoot);
         return "sr.dcm";
     }

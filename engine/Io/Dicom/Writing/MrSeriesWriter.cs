@@ -6,7 +6,8 @@ namespace Serimetry.Engine.Io.Dicom.Writing;
 /// Writes a volume as a classic MR Image Storage series (SOP Class 1.2.840.10008.5.1.4.1.1.4, PS3.3 A.4):
 /// one file per slice with Image Plane attributes (PS3.3 C.7.6.2) taken from the LPS geometry, and float
 /// voxels stored as unsigned 16-bit with Rescale Slope/Intercept (PS3.3 C.11.1.1.2) so that
-/// stored × slope + intercept gives the value back within half a slope.
+/// stored × slope + intercept gives the value back within half a slope. Volumes of whole numbers in 0…65535 are
+/// stored as they are, without Rescale Slope/Intercept.
 /// </summary>
 public static class MrSeriesWriter
 {
@@ -46,10 +47,13 @@ public static class MrSeriesWriter
               .Add(DicomTags.PixelSpacing, DicomVR.DS, g.SpacingMm.Y, g.SpacingMm.X)
               .Add(DicomTags.SliceThickness, DicomVR.DS, g.SpacingMm.Z)
               .Add(DicomTags.SliceLocation, DicomVR.DS, Math.Round(g.IndexToPhysical(0, 0, k).Dot(rowDir.Cross(colDir)), 4))
-              .AddMonochromePixelModule(g.Size.Y, g.Size.X, bitsAllocated: 16, bitsStored: 16)
-              .Add(DicomTags.RescaleIntercept, DicomVR.DS, intercept)
-              .Add(DicomTags.RescaleSlope, DicomVR.DS, slope)
-              .AddBytes(DicomTags.PixelData, DicomVR.OW, Pixels(volume.Slice(k), slope, intercept));
+              .AddMonochromePixelModule(g.Size.Y, g.Size.X, bitsAllocated: 16, bitsStored: 16);
+            // The classic MR Image IOD (PS3.3 A.4) has no Modality LUT module; Rescale Slope/Intercept are written only
+            // when the values are not already whole numbers in 0…65535 (docs/dicom-out.md explains why we keep them then).
+            if (!(slope == 1 && intercept == 0))
+                ds.Add(DicomTags.RescaleIntercept, DicomVR.DS, intercept)
+                  .Add(DicomTags.RescaleSlope, DicomVR.DS, slope);
+            ds.AddBytes(DicomTags.PixelData, DicomVR.OW, Pixels(volume.Slice(k), slope, intercept));
             perSlice?.Invoke(ds);
             DicomPart10Writer.Write(Path.Combine(directory, $"{prefix}-{instance:D4}.dcm"), ds);
             uids.Add(uid);
@@ -64,13 +68,16 @@ public static class MrSeriesWriter
     internal static (double Slope, double Intercept) Rescale(ReadOnlySpan<float> v)
     {
         float min = float.PositiveInfinity, max = float.NegativeInfinity;
+        bool whole = true;
         foreach (var x in v)
         {
             if (!float.IsFinite(x)) continue;
             if (x < min) min = x;
             if (x > max) max = x;
+            whole &= x == MathF.Round(x);
         }
         if (min > max) (min, max) = (0, 0);
+        if (whole && min >= 0 && max <= 65535) return (1, 0); // stored values are the values: identity, no Modality LUT
         double intercept = RoundTrip(Math.Floor(min * 1000) / 1000);
         double slope = RoundTrip(Math.Max((max - intercept) / 65535.0 * 1.0000001, 1e-6));
         return (slope, intercept);
