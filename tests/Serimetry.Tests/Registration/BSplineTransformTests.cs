@@ -77,9 +77,7 @@ public class BSplineTransformTests
     {
         // Src: common practice — gradient of (mean squares + bending energy) wrt the coefficients against
         // central differences of the objective.
-        var grid = RegistrationPhantom.T2Grid(48, 48, 12, 1.5, 3);
-        var f = RegistrationPhantom.Render(grid, AffineTransform.Identity, PhantomContrast.T2w, 0.02, 1);
-        var m = RegistrationPhantom.Render(grid, new AffineTransform(Mat3.Identity, new Vec3(1, -0.5, 0.7)), PhantomContrast.T2w, 0.02, 2);
+        var (grid, f, m) = ShiftedPair(PhantomContrast.T2w);
         var (t, c) = RandomCoefficients(BSplineDeformation.Covering(grid, 12, AffineTransform.Identity), seed: 5, amplitude: 1);
         var metric = new BSplineMeanSquares(SampleSet.Draw(f, null, 4000, 9), new LinearInterpolator(m), -1, t);
         const double weight = 50;
@@ -94,9 +92,7 @@ public class BSplineTransformTests
     public void MutualInformationGradientMatchesFiniteDifferences()
     {
         // Src: common practice — analytic ∂(−MI)/∂c (Mattes et al., IEEE TMI 22(1), 2003) against central differences.
-        var grid = RegistrationPhantom.T2Grid(48, 48, 12, 1.5, 3);
-        var f = RegistrationPhantom.Render(grid, AffineTransform.Identity, PhantomContrast.T2w, 0.02, 1);
-        var m = RegistrationPhantom.Render(grid, new AffineTransform(Mat3.Identity, new Vec3(1, -0.5, 0.7)), PhantomContrast.Adc, 0.02, 2);
+        var (grid, f, m) = ShiftedPair(PhantomContrast.Adc);
         var (t, c) = RandomCoefficients(BSplineDeformation.Covering(grid, 12, AffineTransform.Identity), seed: 6, amplitude: 1);
         var set = SampleSet.Draw(f, null, 4000, 9);
         var metric = new BSplineMutualInformation(set, new LinearInterpolator(m), -1, 32, (f.Voxels.Min(), f.Voxels.Max()), (m.Voxels.Min(), m.Voxels.Max()));
@@ -213,6 +209,14 @@ public class BSplineTransformTests
         Assert.NotNull(o.BSpline);
         Assert.Equal(TransformKind.Rigid, o.Transform);
         Assert.Null(RegistrationOptions.ForPreset("rigid").BSpline);
+    }
+
+    /// <summary>A small T2w fixed image and a moving image of <paramref name="movingContrast"/> shifted by (1, −0.5, 0.7) mm.</summary>
+    private static (Geometry Grid, Volume<float> Fixed, Volume<float> Moving) ShiftedPair(PhantomContrast movingContrast)
+    {
+        var grid = RegistrationPhantom.T2Grid(48, 48, 12, 1.5, 3);
+        return (grid, RegistrationPhantom.Render(grid, AffineTransform.Identity, PhantomContrast.T2w, 0.02, 1),
+            RegistrationPhantom.Render(grid, new AffineTransform(Mat3.Identity, new Vec3(1, -0.5, 0.7)), movingContrast, 0.02, 2));
     }
 
     /// <summary>Which coefficients a finite-difference check probes, its step and its tolerance (relative to the largest gradient entry).</summary>
