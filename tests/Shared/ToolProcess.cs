@@ -1,3 +1,4 @@
+using System.ComponentModel;
 using System.Diagnostics;
 
 namespace Serimetry.Tests.Shared;
@@ -21,10 +22,25 @@ public static class ToolProcess
     public static (int ExitCode, string Stdout, string Stderr) Run(string exe, params string[] args) =>
         Run(StartInfo(exe, args), TimeSpan.FromMinutes(10));
 
-    /// <summary>Runs a prepared start (outputs must be redirected); both outputs are read concurrently so neither pipe fills.</summary>
-    public static (int ExitCode, string Stdout, string Stderr) Run(ProcessStartInfo psi, TimeSpan limit)
+    /// <summary>
+    /// Runs a reference tool (at most two minutes) and returns its outputs; a non-zero exit is an error carrying both.
+    /// <paramref name="debianPackage"/> names what scripts/test.sh installs when the tool is missing.
+    /// </summary>
+    public static (string Stdout, string Stderr) Checked(string exe, string debianPackage, params string[] args)
     {
-        using var p = Process.Start(psi) ?? throw new InvalidOperationException($"{psi.FileName} did not start");
+        var (exitCode, stdout, stderr) = Run(StartInfo(exe, args), TimeSpan.FromMinutes(2), debianPackage);
+        if (exitCode != 0)
+            throw new InvalidOperationException($"{exe} {string.Join(' ', args.Take(8))} failed ({exitCode}): {stderr}{stdout}");
+        return (stdout, stderr);
+    }
+
+    /// <summary>
+    /// Runs a prepared start (outputs must be redirected); both outputs are read concurrently so neither pipe fills.
+    /// A missing program is an error naming <paramref name="debianPackage"/>, which scripts/test.sh installs.
+    /// </summary>
+    public static (int ExitCode, string Stdout, string Stderr) Run(ProcessStartInfo psi, TimeSpan limit, string? debianPackage = null)
+    {
+        using var p = Start(psi, debianPackage);
         var stdout = p.StandardOutput.ReadToEndAsync();
         var stderr = p.StandardError.ReadToEndAsync();
         if (!p.WaitForExit(limit))
@@ -33,5 +49,18 @@ public static class ToolProcess
             throw new TimeoutException($"{Path.GetFileName(psi.FileName)} {psi.ArgumentList.FirstOrDefault()} did not end within {limit.TotalMinutes:0.#} minutes");
         }
         return (p.ExitCode, stdout.Result, stderr.Result);
+    }
+
+    private static Process Start(ProcessStartInfo psi, string? debianPackage)
+    {
+        try
+        {
+            return Process.Start(psi) ?? throw new InvalidOperationException($"{psi.FileName} did not start");
+        }
+        catch (Win32Exception e)
+        {
+            throw new InvalidOperationException(
+                $"{psi.FileName} is not installed ({e.Message}); scripts/test.sh installs {debianPackage ?? "the Debian package that provides it"}", e);
+        }
     }
 }
