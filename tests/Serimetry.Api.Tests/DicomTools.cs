@@ -1,9 +1,9 @@
 using System.Buffers.Binary;
-using System.Diagnostics;
 using System.Net;
 using System.Net.Sockets;
 using Serimetry.Engine.Io.Dicom;
 using Serimetry.Engine.Phantoms;
+using Serimetry.Tests.Shared;
 
 namespace Serimetry.Api.Tests;
 
@@ -18,13 +18,8 @@ internal static class DicomTools
     /// <summary>Runs a tool; returns its exit code and combined output.</summary>
     public static (int Exit, string Output) Run(string tool, params string[] args)
     {
-        var psi = new ProcessStartInfo(tool) { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
-        foreach (var a in args) psi.ArgumentList.Add(a);
-        using var p = Process.Start(psi)!;
-        var stderr = p.StandardError.ReadToEndAsync();
-        string stdout = p.StandardOutput.ReadToEnd();
-        p.WaitForExit();
-        return (p.ExitCode, stdout + stderr.Result);
+        var (exit, stdout, stderr) = ToolProcess.Run(tool, args);
+        return (exit, stdout + stderr);
     }
 
     /// <summary>Runs a tool and asserts exit code 0.</summary>
@@ -60,20 +55,8 @@ internal static class DicomTools
 
     private static readonly Lazy<string> Phantom = new(() =>
     {
-        var spec = new PhantomSpec() with
-        {
-            SubjectId = PatientId, Visits = 2, Seed = 23,
-            T2Grid = new PhantomGrid(100, 80, 14, 1.0, 1.0, 3.0),
-            DwiGrid = new PhantomGrid(50, 40, 14, 2.0, 2.0, 3.0),
-        };
-        string hash = Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData(System.Text.Encoding.UTF8.GetBytes(spec.ToJson())))[..12];
-        string dir = Path.Combine(AppContext.BaseDirectory, "dicom-phantom-" + hash);
-        if (File.Exists(Path.Combine(dir, "spec.json"))) return dir;
-        string tmp = dir + "-" + Guid.NewGuid().ToString("N")[..8];
-        PhantomDicomWriter.Write(tmp, PhantomGenerator.Generate(spec));
-        try { Directory.Move(tmp, dir); }
-        catch (IOException) when (Directory.Exists(dir)) { Directory.Delete(tmp, recursive: true); }
-        return dir;
+        var spec = PhantomCache.TwoVisits(PatientId, seed: 23);
+        return PhantomCache.Folder("dicom-phantom", spec, "spec.json", tmp => PhantomDicomWriter.Write(tmp, PhantomGenerator.Generate(spec)));
     });
 
     /// <summary>The DICOM folder of visit <paramref name="k"/> (t2w/, dwi/, adc/ series of MR Image Storage files).</summary>

@@ -30,23 +30,13 @@ internal static class PhantomStudies
 
     private static string Make()
     {
-        var spec = new PhantomSpec() with
+        var spec = PhantomCache.TwoVisits(PatientId, seed: 11);
+        return PhantomCache.Folder("api-phantom", spec, "visit-1.zip", tmp =>
         {
-            SubjectId = PatientId, Visits = 2, Seed = 11,
-            T2Grid = new PhantomGrid(100, 80, 14, 1.0, 1.0, 3.0),
-            DwiGrid = new PhantomGrid(50, 40, 14, 2.0, 2.0, 3.0),
-        };
-        // Kept beside the test assembly (build output), named by the spec's hash: same spec, same voxels (fixed seed).
-        string hash = Convert.ToHexStringLower(System.Security.Cryptography.SHA256.HashData(System.Text.Encoding.UTF8.GetBytes(spec.ToJson())))[..12];
-        string dir = Path.Combine(AppContext.BaseDirectory, "api-phantom-" + hash);
-        if (File.Exists(Path.Combine(dir, "visit-1.zip"))) return dir;
-        string tmp = dir + "-" + Guid.NewGuid().ToString("N")[..8];
-        PhantomWriter.WriteNifti(tmp, PhantomGenerator.Generate(spec));
-        for (int k = 0; k < 2; k++)
-            ZipFile.CreateFromDirectory(Path.Combine(tmp, $"visit-{k}"), Path.Combine(tmp, $"visit-{k}.zip"));
-        try { Directory.Move(tmp, dir); }
-        catch (IOException) when (Directory.Exists(dir)) { Directory.Delete(tmp, recursive: true); }
-        return dir;
+            PhantomWriter.WriteNifti(tmp, PhantomGenerator.Generate(spec));
+            for (int k = 0; k < 2; k++)
+                ZipFile.CreateFromDirectory(Path.Combine(tmp, $"visit-{k}"), Path.Combine(tmp, $"visit-{k}.zip"));
+        });
     }
 
     private static readonly Lazy<string> Reference = new(() =>

@@ -1,4 +1,3 @@
-using System.Diagnostics;
 using System.Globalization;
 using Serimetry.Engine.Core;
 using Serimetry.Engine.Io.MetaImage;
@@ -41,23 +40,10 @@ internal static partial class ElastixBSplineRunner
             (FinalGridSpacingInPhysicalUnits {gridSpacingMm})
             (GridSpacingSchedule 1.0 1.0)
             """));
-        var psi = new ProcessStartInfo("elastix", "-f fixed.mhd -m moving.mhd -fMask mask.mhd -p rigid.txt -p bspline.txt -out out")
-        {
-            WorkingDirectory = workDir, RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false,
-        };
-        var clock = Stopwatch.StartNew();
-        using var p = Process.Start(psi)!;
-        var stdout = p.StandardOutput.ReadToEndAsync();
-        var stderr = p.StandardError.ReadToEndAsync();
-        if (!p.WaitForExit(600_000)) { p.Kill(true); throw new TimeoutException("elastix did not finish in 10 minutes"); }
-        double seconds = clock.Elapsed.TotalSeconds;
         var tp0 = Path.Combine(workDir, "out", "TransformParameters.0.txt");
         var tp1 = Path.Combine(workDir, "out", "TransformParameters.1.txt");
-        if (p.ExitCode != 0 || !File.Exists(tp1))
-        {
-            string o = stdout.Result;
-            throw new InvalidOperationException($"elastix failed ({p.ExitCode}): {stderr.Result}\n{(o.Length > 3000 ? o[^3000..] : o)}");
-        }
+        double seconds = ElastixReference.RunElastix(workDir,
+            ["-f", "fixed.mhd", "-m", "moving.mhd", "-fMask", "mask.mhd", "-p", "rigid.txt", "-p", "bspline.txt", "-out", "out"], tp1);
         var rigid = ElastixReference.ParseEuler(File.ReadAllText(tp0));
         var bspline = ParseBSpline(File.ReadAllText(tp1));
         return new Outcome(new Composed(rigid, bspline), seconds);

@@ -27,30 +27,33 @@ public static partial class ElastixReference
         Directory.CreateDirectory(workDir);
         MetaImageWriter.Write(Path.Combine(workDir, "fixed.mhd"), fixedImage);
         MetaImageWriter.Write(Path.Combine(workDir, "moving.mhd"), moving);
-        var args = $"-f fixed.mhd -m moving.mhd -p params.txt -out out";
+        var args = new List<string> { "-f", "fixed.mhd", "-m", "moving.mhd", "-p", "params.txt", "-out", "out" };
         if (mask is not null)
         {
             MetaImageWriter.Write(Path.Combine(workDir, "mask.mhd"), mask);
-            args += " -fMask mask.mhd";
+            args.AddRange(["-fMask", "mask.mhd"]);
         }
-        if (threads > 0) args += $" -threads {threads}";
+        if (threads > 0) args.AddRange(["-threads", threads.ToString(CultureInfo.InvariantCulture)]);
         File.WriteAllText(Path.Combine(workDir, "params.txt"), Parameters(s));
         Directory.CreateDirectory(Path.Combine(workDir, "out"));
-        var psi = new ProcessStartInfo("elastix", args)
-        {
-            WorkingDirectory = workDir, RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false,
-        };
-        var clock = Stopwatch.StartNew();
-        using var p = Process.Start(psi)!;
-        var stdout = p.StandardOutput.ReadToEndAsync();
-        var stderr = p.StandardError.ReadToEndAsync();
-        if (!p.WaitForExit(600_000)) { p.Kill(true); throw new TimeoutException("elastix did not finish in 10 minutes"); }
-        double seconds = clock.Elapsed.TotalSeconds;
         var tp = Path.Combine(workDir, "out", "TransformParameters.0.txt");
-        if (p.ExitCode != 0 || !File.Exists(tp))
-            throw new InvalidOperationException($"elastix failed ({p.ExitCode}): {stderr.Result}\n{Tail(stdout.Result)}");
+        double seconds = RunElastix(workDir, args, tp);
         var text = File.ReadAllText(tp);
         return new Outcome(ParseEuler(text), seconds, Field(text, "TransformParameters"));
+    }
+
+    /// <summary>
+    /// Runs elastix in <paramref name="workDir"/> (at most ten minutes) and returns its wall time in seconds; a non-zero
+    /// exit or a missing <paramref name="lastOutput"/> file is an error carrying stderr and the tail of stdout.
+    /// </summary>
+    internal static double RunElastix(string workDir, IEnumerable<string> args, string lastOutput)
+    {
+        var clock = Stopwatch.StartNew();
+        var (exitCode, stdout, stderr) = ToolProcess.Run(ToolProcess.StartInfo("elastix", args, workDir), TimeSpan.FromMinutes(10));
+        double seconds = clock.Elapsed.TotalSeconds;
+        if (exitCode != 0 || !File.Exists(lastOutput))
+            throw new InvalidOperationException($"elastix failed ({exitCode}): {stderr}\n{Tail(stdout)}");
+        return seconds;
     }
 
     /// <summary>Reads EulerTransform parameters and centre of rotation into an affine map.</summary>

@@ -141,13 +141,8 @@ public sealed class PostgresCluster : IDisposable
 
     private static string Run(string exe, IEnumerable<string> args)
     {
-        var psi = new ProcessStartInfo(exe) { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
-        foreach (var a in args) psi.ArgumentList.Add(a);
-        using var p = Process.Start(psi)!;
-        var stderr = p.StandardError.ReadToEndAsync();
-        string output = p.StandardOutput.ReadToEnd();
-        p.WaitForExit();
-        if (p.ExitCode != 0) throw new InvalidOperationException($"{Path.GetFileName(exe)} failed with {p.ExitCode}: {stderr.Result}");
+        var (exitCode, output, stderr) = ToolProcess.Run(exe, [.. args]);
+        if (exitCode != 0) throw new InvalidOperationException($"{Path.GetFileName(exe)} failed with {exitCode}: {stderr}");
         return output.Trim();
     }
 

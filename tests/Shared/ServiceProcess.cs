@@ -58,24 +58,12 @@ public sealed class ServiceProcess : IDisposable
     }
 
     /// <summary>Runs the CLI to its end (at most two minutes) and returns its exit code, stdout and stderr.</summary>
-    public static (int ExitCode, string Stdout, string Stderr) RunCli(params string[] args)
-    {
-        using var p = Process.Start(Psi(args))!;
-        var stderr = p.StandardError.ReadToEndAsync();
-        var stdout = p.StandardOutput.ReadToEndAsync();
-        if (!p.WaitForExit(120_000))
-        {
-            p.Kill(entireProcessTree: true);
-            throw new TimeoutException($"serimetry {string.Join(' ', args.Take(1))} did not end within two minutes");
-        }
-        return (p.ExitCode, stdout.Result, stderr.Result);
-    }
+    public static (int ExitCode, string Stdout, string Stderr) RunCli(params string[] args) =>
+        ToolProcess.Run(Psi(args), TimeSpan.FromMinutes(2));
 
     private static ProcessStartInfo Psi(string[] args)
     {
-        var psi = new ProcessStartInfo("dotnet") { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
-        psi.ArgumentList.Add(CliDll);
-        foreach (var a in args) psi.ArgumentList.Add(a);
+        var psi = ToolProcess.StartInfo("dotnet", [CliDll, .. args]);
         psi.Environment["DOTNET_NOLOGO"] = "1";
         return psi;
     }

@@ -1,5 +1,6 @@
 using System.Globalization;
 using Serimetry.Engine.Core;
+using Serimetry.Engine.Io;
 using Serimetry.Engine.Repeatability;
 
 namespace Serimetry.Engine.Radiomics.Robustness;
@@ -35,38 +36,24 @@ public static class TestRetestTable
     /// <summary>Reads table text; <paramref name="where"/> names the source in error messages.</summary>
     public static IReadOnlyList<TestRetestValue> Read(TextReader reader, string where)
     {
-        ArgumentNullException.ThrowIfNull(reader);
-        var header = reader.ReadLine();
-        while (header is not null && header.Trim().Length == 0) header = reader.ReadLine();
-        if (header is null)
-            throw new InputFormatException("the test-retest feature table is empty", where, $"add the header {Header} and data rows");
-        var fields = TestRetestCsv.SplitLine(header.TrimStart('\uFEFF'), where, 1);
-        var required = Required.Select(c => Column(fields, c, where, mustExist: true)).ToArray();
-        var optional = Optional.Select(c => Column(fields, c, where, mustExist: false)).ToArray();
+        var csv = TidyCsvReader.Open(reader, where, Header, "the test-retest feature table is empty",
+            $"add the header {Header} and data rows", MaxRows, "split the table by region or family");
+        const string headerFix = $"the header must name the columns {Header} (region and image may be left out)";
+        var required = Required.Select(c => csv.Column(c, required: true, headerFix)).ToArray();
+        var optional = Optional.Select(c => csv.Column(c, required: false, headerFix)).ToArray();
+        int needed = required.Concat(optional).Max() + 1;
         var repeatIds = new Dictionary<string, int>(StringComparer.Ordinal);
         var rows = new List<TestRetestValue>();
-        int lineNo = 1;
-        string? line;
-        while ((line = reader.ReadLine()) is not null)
+        while (csv.NextRow(needed))
         {
-            lineNo++;
-            if (line.Trim().Length == 0) continue;
-            if (rows.Count >= MaxRows)
-                throw new InputLimitException($"more than {MaxRows:N0} rows", where, "split the table by region or family");
-            var f = TestRetestCsv.SplitLine(line, where, lineNo);
-            string at = $"{where} line {lineNo}";
-            int needed = required.Concat(optional).Max() + 1;
-            if (f.Count < needed)
-                throw new InputFormatException($"expected at least {needed} fields, found {f.Count}", at, $"every row needs the columns {Header}");
-            string subject = f[required[0]].Trim(), repeat = f[required[1]].Trim();
-            if (subject.Length == 0) throw new InputFormatException("the subject cell is empty", at, "give every row a subject label");
-            if (repeat.Length == 0) throw new InputFormatException("the repeat cell is empty", at, "give every row a repeat (session) label");
+            string subject = csv.Label(required[0], "subject", "give every row a subject label");
+            string repeat = csv.Label(required[1], "repeat", "give every row a repeat (session) label");
             if (!repeatIds.TryGetValue(repeat, out int r)) repeatIds[repeat] = r = repeatIds.Count;
-            var feature = new FeatureValue(f[required[2]].Trim(), f[required[3]].Trim(), f[required[4]].Trim(), f[required[5]].Trim(),
-                ParseValue(f[required[6]].Trim(), at));
+            var feature = new FeatureValue(csv.Text(required[2]), csv.Text(required[3]), csv.Text(required[4]), csv.Text(required[5]),
+                csv.Number(required[6], "use a decimal point and no units; leave the cell empty or write NA for a missing value"));
             if (feature.Family.Length == 0 || feature.Feature.Length == 0)
-                throw new InputFormatException("the family or feature cell is empty", at, "name the feature as features.csv does");
-            rows.Add(new TestRetestValue(subject, r, feature, Cell(f, optional[0]), Cell(f, optional[1])));
+                throw new InputFormatException("the family or feature cell is empty", csv.At, "name the feature as features.csv does");
+            rows.Add(new TestRetestValue(subject, r, feature, csv.Text(optional[0]), csv.Text(optional[1])));
         }
         if (rows.Count == 0)
             throw new InputFormatException("the test-retest feature table has a header but no data rows", where,
@@ -88,26 +75,5 @@ public static class TestRetestTable
                 RadiomicsCsv.Field(f.Family), RadiomicsCsv.Field(f.Feature), RadiomicsCsv.Field(f.IbsiCode), RadiomicsCsv.Field(f.AggregationCode), RadiomicsCsv.Number(f.Value)));
             writer.Write('\n');
         }
-    }
-
-    private static int Column(List<string> fields, string name, string where, bool mustExist)
-    {
-        for (int i = 0; i < fields.Count; i++)
-            if (string.Equals(fields[i].Trim(), name, StringComparison.OrdinalIgnoreCase)) return i;
-        if (mustExist)
-            throw new InputFormatException($"header lacks the column '{name}' (found: {string.Join(",", fields)})", $"{where} line 1",
-                $"the header must name the columns {Header} (region and image may be left out)");
-        return -1;
-    }
-
-    private static string Cell(List<string> f, int column) => column >= 0 ? f[column].Trim() : "";
-
-    private static double ParseValue(string text, string at)
-    {
-        if (text.Length == 0 || text.Equals("NA", StringComparison.OrdinalIgnoreCase)) return double.NaN;
-        if (!double.TryParse(text, NumberStyles.Float, CultureInfo.InvariantCulture, out var v) || !double.IsFinite(v))
-            throw new InputFormatException($"value '{text}' is not a finite number", at,
-                "use a decimal point and no units; leave the cell empty or write NA for a missing value");
-        return v;
     }
 }

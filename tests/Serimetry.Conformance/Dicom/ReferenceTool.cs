@@ -1,5 +1,4 @@
-using System.ComponentModel;
-using System.Diagnostics;
+using Serimetry.Tests.Shared;
 
 namespace Serimetry.Conformance.Dicom;
 
@@ -9,34 +8,7 @@ internal static class ReferenceTool
     public static void Run(string tool, params string[] args) => Capture(tool, args);
 
     /// <summary>Runs the tool and returns its standard output.</summary>
-    public static string Capture(string tool, params string[] args)
-    {
-        var psi = new ProcessStartInfo(tool) { RedirectStandardError = true, RedirectStandardOutput = true };
-        foreach (var a in args) psi.ArgumentList.Add(a);
-        Process p;
-        try
-        {
-            p = Process.Start(psi) ?? throw new InvalidOperationException($"{tool} did not start");
-        }
-        catch (Win32Exception ex)
-        {
-            throw new InvalidOperationException(
-                $"{tool} is not installed ({ex.Message}); scripts/test.sh installs dcmtk and libgdcm-tools", ex);
-        }
-        using (p)
-        {
-            var stderr = p.StandardError.ReadToEndAsync();
-            var stdout = p.StandardOutput.ReadToEndAsync();
-            if (!p.WaitForExit(120_000))
-            {
-                p.Kill(true);
-                throw new TimeoutException($"{tool} did not finish within 120 s");
-            }
-            if (p.ExitCode != 0)
-                throw new InvalidOperationException($"{tool} {string.Join(' ', args.Take(8))} failed ({p.ExitCode}): {stderr.Result}{stdout.Result}");
-            return stdout.Result;
-        }
-    }
+    public static string Capture(string tool, params string[] args) => ToolProcess.Checked(tool, "dcmtk and libgdcm-tools", args).Stdout;
 
     /// <summary>A fresh temporary folder, deleted by <see cref="IDisposable.Dispose"/>.</summary>
     public sealed class TempDir : IDisposable

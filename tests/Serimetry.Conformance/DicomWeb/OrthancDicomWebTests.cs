@@ -33,7 +33,7 @@ public sealed class OrthancDicomWebTests(DicomWebPhantomFixture fx, ITestOutputH
                          + Directory.GetFiles(fx.Exam(1), "*.dcm", SearchOption.AllDirectories).Length;
 
         // STOW-RS with our client, through the push verb.
-        var push = CliProcess.Run(["push", .. auth, fx.Exam(0), fx.Exam(1)]);
+        var push = ServiceProcess.RunCli(["push", .. auth, fx.Exam(0), fx.Exam(1)]);
         Assert.True(push.ExitCode == 0, push.Stderr);
         Assert.Contains($"stored {localFiles} of {localFiles}", push.Stdout);
 
@@ -45,7 +45,7 @@ public sealed class OrthancDicomWebTests(DicomWebPhantomFixture fx, ITestOutputH
 
         // WADO-RS through the fetch verb: every instance comes back with identical pixel bytes.
         var fetched = Path.Combine(fx.Dir, "fetched-0");
-        var fetch = CliProcess.Run(["fetch", .. auth, "--study", uids[0], "--out", fetched]);
+        var fetch = ServiceProcess.RunCli(["fetch", .. auth, "--study", uids[0], "--out", fetched]);
         Assert.True(fetch.ExitCode == 0, fetch.Stderr);
         var local = PixelsBySop(fx.Exam(0));
         var remote = PixelsBySop(fetched);
@@ -58,9 +58,9 @@ public sealed class OrthancDicomWebTests(DicomWebPhantomFixture fx, ITestOutputH
         var outLocal = Path.Combine(fx.Dir, "out-local");
         var outRemote = Path.Combine(fx.Dir, "out-remote");
         var before = TempDicomWebFolders();
-        var l = CliProcess.Run(["compare", "--baseline", fx.Exam(0), "--followup", fx.Exam(1), "--out", outLocal, .. masks]);
+        var l = ServiceProcess.RunCli(["compare", "--baseline", fx.Exam(0), "--followup", fx.Exam(1), "--out", outLocal, .. masks]);
         Assert.True(l.ExitCode == 0, l.Stderr);
-        var r = CliProcess.Run(["compare", "--baseline", "dicomweb:" + uids[0], "--followup", "dicomweb:" + uids[1], .. auth, "--out", outRemote, .. masks]);
+        var r = ServiceProcess.RunCli(["compare", "--baseline", "dicomweb:" + uids[0], "--followup", "dicomweb:" + uids[1], .. auth, "--out", outRemote, .. masks]);
         Assert.True(r.ExitCode == 0, r.Stderr);
         Assert.Equal(before, TempDicomWebFolders()); // the fetched copies were removed
         var jl = JsonNode.Parse(File.ReadAllText(Path.Combine(outLocal, "change.json")))!;
@@ -106,7 +106,7 @@ public sealed class OrthancDicomWebTests(DicomWebPhantomFixture fx, ITestOutputH
         // WADO-RS of an unknown study: the server's own 404 is passed on with its status (PS3.18 10.4.3).
         var w = await Assert.ThrowsAsync<DicomWebException>(() => client.RetrieveAsync("2.25.1234567", null, dir.Dir));
         Assert.Equal(404, w.StatusCode);
-        var cli = CliProcess.Run("fetch", "--server", fx.Server.DicomWebRoot, "--auth", fx.Server.Authorization, "--study", "2.25.1234567", "--out", Path.Combine(dir.Dir, "y"));
+        var cli = ServiceProcess.RunCli("fetch", "--server", fx.Server.DicomWebRoot, "--auth", fx.Server.Authorization, "--study", "2.25.1234567", "--out", Path.Combine(dir.Dir, "y"));
         Assert.Equal(3, cli.ExitCode);
         Assert.Contains("2.25.1234567 is not on the server", cli.Stderr);
     }
@@ -128,7 +128,7 @@ public sealed class OrthancDicomWebTests(DicomWebPhantomFixture fx, ITestOutputH
         var e = await Assert.ThrowsAsync<DicomWebException>(() => client.SearchStudiesAsync(studyInstanceUid: "2.25.1"));
         Assert.Null(e.StatusCode);
         Assert.Contains("could not reach", e.Message);
-        var cli = CliProcess.Run("compare", "--baseline", "dicomweb:2.25.1", "--followup", "dicomweb:2.25.2", "--server", $"http://127.0.0.1:{port}/dicom-web",
+        var cli = ServiceProcess.RunCli("compare", "--baseline", "dicomweb:2.25.1", "--followup", "dicomweb:2.25.2", "--server", $"http://127.0.0.1:{port}/dicom-web",
             "--out", Path.Combine(fx.Dir, "never"));
         Assert.Equal(3, cli.ExitCode);
         Assert.Contains("could not reach the DICOMweb server", cli.Stderr);

@@ -1,5 +1,5 @@
-using System.Diagnostics;
 using System.Globalization;
+using Serimetry.Tests.Shared;
 
 namespace Serimetry.Conformance.Nifti;
 
@@ -11,26 +11,8 @@ internal static class NiftiTool
 {
     public static string Run(params string[] args)
     {
-        var psi = new ProcessStartInfo("nifti_tool") { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
-        foreach (var a in args) psi.ArgumentList.Add(a);
-        Process p;
-        try
-        {
-            p = Process.Start(psi) ?? throw new InvalidOperationException("nifti_tool did not start");
-        }
-        catch (System.ComponentModel.Win32Exception e)
-        {
-            throw new InvalidOperationException("nifti_tool (Debian package nifti-bin) is required by this test; scripts/test.sh installs it", e);
-        }
-        using (p)
-        {
-            var stdoutTask = p.StandardOutput.ReadToEndAsync();
-            var stderr = p.StandardError.ReadToEnd();
-            if (!p.WaitForExit(60_000)) p.Kill();
-            string stdout = stdoutTask.Result;
-            if (p.ExitCode != 0) throw new InvalidOperationException($"nifti_tool {string.Join(' ', args)} failed ({p.ExitCode}): {stderr}");
-            return stdout + stderr;
-        }
+        var (stdout, stderr) = ToolProcess.Checked("nifti_tool", "nifti-bin", args);
+        return stdout + stderr;
     }
 
     /// <summary>Field name → the printed values (split on whitespace).</summary>

@@ -1,5 +1,4 @@
 using System.Globalization;
-using System.Diagnostics;
 using Serimetry.Tests.Shared;
 using Xunit;
 
@@ -19,7 +18,7 @@ public sealed class RadiomicsVerbPhantomTests
         try
         {
             var csv = Path.Combine(dir.FullName, "features.csv");
-            var (rc, stderr) = RunCli(
+            var (rc, _, stderr) = ServiceProcess.RunCli(
             [
                 "radiomics",
                 "--image", SharedReference.PathOf("ibsi", "digital_phantom", "nifti", "image", "phantom.nii.gz"),
@@ -49,7 +48,7 @@ public sealed class RadiomicsVerbPhantomTests
     [Fact]
     public void Verb_reports_an_empty_roi_with_exit_code_3()
     {
-        var (rc, stderr) = RunCli(
+        var (rc, _, stderr) = ServiceProcess.RunCli(
         [
             "radiomics",
             "--image", SharedReference.PathOf("ibsi", "digital_phantom", "nifti", "image", "phantom.nii.gz"),
@@ -67,26 +66,12 @@ public sealed class RadiomicsVerbPhantomTests
     {
         // The image (a DICOM series folder) is read; a folder given as the mask gets a clear input error (docs/masks.md).
         string series = SharedReference.PathOf("dicom", "series-oblique");
-        var (rc, stderr) = RunCli(
+        var (rc, _, stderr) = ServiceProcess.RunCli(
         [
             "radiomics", "--image", series, "--mask", series,
             "--out", Path.Combine(Path.GetTempPath(), "serimetry-never-written.csv"),
         ]);
         Assert.Equal(3, rc);
         Assert.Contains("folder", stderr);
-    }
-
-    // Runs the built serimetry program (copied beside the tests through the project reference) as a process.
-    private static (int ExitCode, string Stderr) RunCli(string[] args)
-    {
-        var start = new ProcessStartInfo("dotnet") { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
-        start.ArgumentList.Add(Path.Combine(AppContext.BaseDirectory, "serimetry.dll"));
-        foreach (var a in args) start.ArgumentList.Add(a);
-        using var process = Process.Start(start)!;
-        var stdoutTask = process.StandardOutput.ReadToEndAsync();
-        var stderr = process.StandardError.ReadToEnd();
-        process.WaitForExit();
-        _ = stdoutTask.Result;
-        return (process.ExitCode, stderr);
     }
 }

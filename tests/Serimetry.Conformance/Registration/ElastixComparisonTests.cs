@@ -1,4 +1,3 @@
-using Serimetry.Engine.Core;
 using Serimetry.Engine.Imaging.Morphology;
 using Serimetry.Engine.Registration;
 using Serimetry.Tests.Shared;
@@ -25,14 +24,10 @@ public class ElastixComparisonTests(ITestOutputHelper output)
     public void RigidIsAsAccurateAsElastix(int seed)
     {
         Assert.True(ElastixReference.Available, "elastix is not installed (scripts/test.sh installs the Debian package)");
-        var grid = RegistrationPhantom.T2Grid();
-        var truth = RegistrationPhantom.RandomRigid(seed);
-        var fixedImage = RegistrationPhantom.Render(grid, AffineTransform.Identity, PhantomContrast.T2w, 0.03, seed, bias: 0.15);
-        var moving = RegistrationPhantom.Render(grid, truth, PhantomContrast.T2w, 0.03, seed + 5000, bias: 0.15);
-        var mask = RegistrationPhantom.GlandMask(grid);
+        var pair = RigidCase.Make(seed);
         var options = RegistrationOptions.Rigid();
 
-        var ours = Registrar.Register(fixedImage, moving, options, mask);
+        var ours = Registrar.Register(pair.Fixed, pair.Moving, options, pair.GlandMask);
 
         var work = Path.Combine(Path.GetTempPath(), $"serimetry-elastix-{seed}-{Guid.NewGuid():N}");
         try
@@ -40,9 +35,9 @@ public class ElastixComparisonTests(ITestOutputHelper output)
             var schedule = new ElastixReference.Schedule(
                 ours.Levels.SelectMany(l => new[] { l.FixedShrink.X, l.FixedShrink.Y, l.FixedShrink.Z }).ToArray(),
                 options.Levels.Select(l => l.Samples).ToArray(), options.Levels.Max(l => l.MaxIterations), options.HistogramBins);
-            var elastix = ElastixReference.Run(fixedImage, moving, MaskOps.DilateBox(mask, options.MaskDilationMm), schedule, work);
-            double ourTre = RegistrationPhantom.GlandTre(grid, ours.Transform, truth);
-            double refTre = RegistrationPhantom.GlandTre(grid, elastix.Transform, truth);
+            var elastix = ElastixReference.Run(pair.Fixed, pair.Moving, MaskOps.DilateBox(pair.GlandMask, options.MaskDilationMm), schedule, work);
+            double ourTre = pair.GlandTre(ours.Transform);
+            double refTre = pair.GlandTre(elastix.Transform);
             output.WriteLine($"seed {seed}: Serimetry TRE {ourTre:F3} mm in {ours.ElapsedSeconds:F2} s; elastix TRE {refTre:F3} mm in {elastix.WallSeconds:F2} s ({elastix.ParameterLine})");
             Assert.True(ourTre <= refTre + 0.1, $"TRE {ourTre:F3} mm vs elastix {refTre:F3} mm");
             Assert.True(ourTre <= 0.5);

@@ -77,87 +77,44 @@ public class BSplineTransformTests
     {
         // Src: common practice — gradient of (mean squares + bending energy) wrt the coefficients against
         // central differences of the objective.
-        var grid = RegistrationPhantom.T2Grid(48, 48, 12, 1.5, 3);
-        var f = RegistrationPhantom.Render(grid, AffineTransform.Identity, PhantomContrast.T2w, 0.02, 1);
-        var m = RegistrationPhantom.Render(grid, new AffineTransform(Mat3.Identity, new Vec3(1, -0.5, 0.7)), PhantomContrast.T2w, 0.02, 2);
-        var rng = new Random(5);
-        var t0 = BSplineDeformation.Covering(grid, 12, AffineTransform.Identity);
-        var c = new double[t0.Coefficients.Count];
-        for (int i = 0; i < c.Length; i++) c[i] = rng.NextDouble() * 2 - 1;
-        var t = t0.With(coefficients: c);
+        var (grid, f, m) = ShiftedPair(PhantomContrast.T2w);
+        var (t, c) = RandomCoefficients(BSplineDeformation.Covering(grid, 12, AffineTransform.Identity), seed: 5, amplitude: 1);
         var metric = new BSplineMeanSquares(SampleSet.Draw(f, null, 4000, 9), new LinearInterpolator(m), -1, t);
         const double weight = 50;
         var grad = new double[c.Length];
         DeformableStage.Objective(metric, t, weight, grad);
-        double maxAbs = grad.Max(Math.Abs);
-        Assert.True(maxAbs > 0);
-        int checkedCount = 0;
-        for (int q = 0; q < c.Length && checkedCount < 24; q += 37)
-        {
-            const double h = 1e-5;
-            var plus = (double[])c.Clone(); plus[q] += h;
-            var minus = (double[])c.Clone(); minus[q] -= h;
-            double fd = (DeformableStage.Objective(metric, t.With(coefficients: plus), weight, default)
-                - DeformableStage.Objective(metric, t.With(coefficients: minus), weight, default)) / (2 * h);
-            Assert.True(Math.Abs(fd - grad[q]) <= 1e-3 * maxAbs + 1e-9, $"coefficient {q}: analytic {grad[q]:G6} vs FD {fd:G6}");
-            checkedCount++;
-        }
+        Assert.True(grad.Max(Math.Abs) > 0);
+        AssertCentralDifferences(c, grad, cc => DeformableStage.Objective(metric, t.With(coefficients: cc), weight, default),
+            new FdProbe(First: 0, Stride: 37, Most: 24, Step: 1e-5, RelativeTolerance: 1e-3, AbsoluteTolerance: 1e-9));
     }
 
     [Fact]
     public void MutualInformationGradientMatchesFiniteDifferences()
     {
         // Src: common practice — analytic ∂(−MI)/∂c (Mattes et al., IEEE TMI 22(1), 2003) against central differences.
-        var grid = RegistrationPhantom.T2Grid(48, 48, 12, 1.5, 3);
-        var f = RegistrationPhantom.Render(grid, AffineTransform.Identity, PhantomContrast.T2w, 0.02, 1);
-        var m = RegistrationPhantom.Render(grid, new AffineTransform(Mat3.Identity, new Vec3(1, -0.5, 0.7)), PhantomContrast.Adc, 0.02, 2);
-        var rng = new Random(6);
-        var t0 = BSplineDeformation.Covering(grid, 12, AffineTransform.Identity);
-        var c = new double[t0.Coefficients.Count];
-        for (int i = 0; i < c.Length; i++) c[i] = rng.NextDouble() * 2 - 1;
-        var t = t0.With(coefficients: c);
+        var (grid, f, m) = ShiftedPair(PhantomContrast.Adc);
+        var (t, c) = RandomCoefficients(BSplineDeformation.Covering(grid, 12, AffineTransform.Identity), seed: 6, amplitude: 1);
         var set = SampleSet.Draw(f, null, 4000, 9);
         var metric = new BSplineMutualInformation(set, new LinearInterpolator(m), -1, 32, (f.Voxels.Min(), f.Voxels.Max()), (m.Voxels.Min(), m.Voxels.Max()));
         var grad = new double[c.Length];
         double value = metric.Evaluate(t, grad);
         Assert.True(value < 0);
-        double maxAbs = grad.Max(Math.Abs);
-        Assert.True(maxAbs > 0);
-        int compared = 0;
-        for (int q = 0; q < c.Length && compared < 24; q += 37)
-        {
-            const double h = 1e-5;
-            var plus = (double[])c.Clone(); plus[q] += h;
-            var minus = (double[])c.Clone(); minus[q] -= h;
-            double fd = (metric.Evaluate(t.With(coefficients: plus), default) - metric.Evaluate(t.With(coefficients: minus), default)) / (2 * h);
-            Assert.True(Math.Abs(fd - grad[q]) <= 2e-3 * maxAbs + 1e-9, $"coefficient {q}: analytic {grad[q]:G6} vs FD {fd:G6}");
-            compared++;
-        }
+        Assert.True(grad.Max(Math.Abs) > 0);
+        AssertCentralDifferences(c, grad, cc => metric.Evaluate(t.With(coefficients: cc), default),
+            new FdProbe(First: 0, Stride: 37, Most: 24, Step: 1e-5, RelativeTolerance: 2e-3, AbsoluteTolerance: 1e-9));
     }
 
     [Fact]
     public void FoldingGuardGradientMatchesFiniteDifferencesAndVanishesAboveThreshold()
     {
         // Src: common practice (central differences); Jacobi's formula ∂det J/∂J = cof J.
-        var rng = new Random(8);
-        var t0 = BSplineDeformation.Covering(Domain, 10, AffineTransform.Identity);
-        var c = new double[t0.Coefficients.Count];
-        for (int i = 0; i < c.Length; i++) c[i] = 3 * (rng.NextDouble() * 2 - 1);
-        var t = t0.With(coefficients: c);
+        var (t, c) = RandomCoefficients(BSplineDeformation.Covering(Domain, 10, AffineTransform.Identity), seed: 8, amplitude: 3);
         const double threshold = 1.0;
         var grad = new double[c.Length];
         double value = JacobianPenalty.Evaluate(t, threshold, 1, grad);
         Assert.True(value > 0);
-        double maxAbs = grad.Max(Math.Abs);
-        for (int q = 5; q < c.Length; q += 53)
-        {
-            const double h = 1e-6;
-            var plus = (double[])c.Clone(); plus[q] += h;
-            var minus = (double[])c.Clone(); minus[q] -= h;
-            double fd = (JacobianPenalty.Evaluate(t.With(coefficients: plus), threshold, 1, default)
-                - JacobianPenalty.Evaluate(t.With(coefficients: minus), threshold, 1, default)) / (2 * h);
-            Assert.True(Math.Abs(fd - grad[q]) <= 1e-4 * maxAbs + 1e-10, $"coefficient {q}: analytic {grad[q]:G6} vs FD {fd:G6}");
-        }
+        AssertCentralDifferences(c, grad, cc => JacobianPenalty.Evaluate(t.With(coefficients: cc), threshold, 1, default),
+            new FdProbe(First: 5, Stride: 53, Most: int.MaxValue, Step: 1e-6, RelativeTolerance: 1e-4, AbsoluteTolerance: 1e-10));
         // A 10 % uniform compression (det 0.9 everywhere) is above a 0.5 threshold: no penalty.
         var compressed = FromField(x => new Vec3(0, -0.1 * x.Y, 0));
         Assert.Equal(0, JacobianPenalty.Evaluate(compressed, 0.5, 1, default));
@@ -252,5 +209,42 @@ public class BSplineTransformTests
         Assert.NotNull(o.BSpline);
         Assert.Equal(TransformKind.Rigid, o.Transform);
         Assert.Null(RegistrationOptions.ForPreset("rigid").BSpline);
+    }
+
+    /// <summary>A small T2w fixed image and a moving image of <paramref name="movingContrast"/> shifted by (1, −0.5, 0.7) mm.</summary>
+    private static (Geometry Grid, Volume<float> Fixed, Volume<float> Moving) ShiftedPair(PhantomContrast movingContrast)
+    {
+        var grid = RegistrationPhantom.T2Grid(48, 48, 12, 1.5, 3);
+        return (grid, RegistrationPhantom.Render(grid, AffineTransform.Identity, PhantomContrast.T2w, 0.02, 1),
+            RegistrationPhantom.Render(grid, new AffineTransform(Mat3.Identity, new Vec3(1, -0.5, 0.7)), movingContrast, 0.02, 2));
+    }
+
+    /// <summary>Which coefficients a finite-difference check probes, its step and its tolerance (relative to the largest gradient entry).</summary>
+    private sealed record FdProbe(int First, int Stride, int Most, double Step, double RelativeTolerance, double AbsoluteTolerance);
+
+    /// <summary>The transform with every coefficient drawn uniformly from ±<paramref name="amplitude"/> (mm).</summary>
+    private static (BSplineDeformation T, double[] C) RandomCoefficients(BSplineDeformation t0, int seed, double amplitude)
+    {
+        var rng = new Random(seed);
+        var c = new double[t0.Coefficients.Count];
+        for (int i = 0; i < c.Length; i++) c[i] = amplitude * (rng.NextDouble() * 2 - 1);
+        return (t0.With(coefficients: c), c);
+    }
+
+    /// <summary>Asserts the analytic gradient equals central differences of <paramref name="objective"/> at the probed coefficients.</summary>
+    private static void AssertCentralDifferences(double[] c, double[] grad, Func<double[], double> objective, FdProbe probe)
+    {
+        double maxAbs = grad.Max(Math.Abs);
+        int compared = 0;
+        for (int q = probe.First; q < c.Length && compared < probe.Most; q += probe.Stride)
+        {
+            var plus = (double[])c.Clone(); plus[q] += probe.Step;
+            var minus = (double[])c.Clone(); minus[q] -= probe.Step;
+            double fd = (objective(plus) - objective(minus)) / (2 * probe.Step);
+            Assert.True(Math.Abs(fd - grad[q]) <= probe.RelativeTolerance * maxAbs + probe.AbsoluteTolerance,
+                $"coefficient {q}: analytic {grad[q]:G6} vs FD {fd:G6}");
+            compared++;
+        }
+        Assert.True(compared > 0);
     }
 }

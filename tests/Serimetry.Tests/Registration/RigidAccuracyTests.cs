@@ -22,16 +22,12 @@ public class RigidAccuracyTests(ITestOutputHelper output)
     [InlineData(106)]
     public void RigidPresetRecoversKnownMotion(int seed)
     {
-        var grid = RegistrationPhantom.T2Grid();
-        var truth = RegistrationPhantom.RandomRigid(seed);
-        var fixedImage = RegistrationPhantom.Render(grid, AffineTransform.Identity, PhantomContrast.T2w, 0.03, seed, bias: 0.15);
-        var moving = RegistrationPhantom.Render(grid, truth, PhantomContrast.T2w, 0.03, seed + 5000, bias: 0.15);
-        var mask = RegistrationPhantom.GlandMask(grid);
+        var pair = RigidCase.Make(seed);
 
-        var result = Registrar.Register(fixedImage, moving, RegistrationOptions.Rigid(), mask);
+        var result = Registrar.Register(pair.Fixed, pair.Moving, RegistrationOptions.Rigid(), pair.GlandMask);
 
-        double tre = RegistrationPhantom.GlandTre(grid, result.Transform, truth);
-        double before = RegistrationPhantom.GlandTre(grid, AffineTransform.Identity, truth);
+        double tre = pair.GlandTre(result.Transform);
+        double before = pair.GlandTre(AffineTransform.Identity);
         output.WriteLine($"seed {seed}: TRE {tre:F3} mm (identity {before:F1} mm), iterations {string.Join("/", result.IterationsPerLevel)}, " +
             $"stop {string.Join("/", result.Levels.Select(l => l.StopReason))}, {result.ElapsedSeconds:F2} s, warnings: {string.Join("; ", result.Warnings)}");
         Assert.True(tre <= 0.5, $"TRE {tre:F3} mm > 0.5 mm");
