@@ -12,14 +12,19 @@ namespace Serimetry.Api.Dicom;
 /// The service's side of the DICOM receiver. Instances are kept per Study Instance UID under <c>received/&lt;hash&gt;/</c>;
 /// when an association ends, every study it touched is indexed through <see cref="StudyIntake"/> with all instances
 /// received for it so far (exactly as an upload of those files: content-addressed blobs, study row, roles), then the
-/// trigger rule runs. The association is audited (calling AE title, instance count); the log carries study ids only.
+/// trigger rule runs. Once indexed, the received copies are removed (the blob store and study folder hold them) and
+/// only the study id is kept there, so the next association on the study indexes the earlier instances with the new;
+/// when indexing fails they stay for a re-send. The association is audited (calling AE title, instance count); the log carries study ids only.
 /// </summary>
 internal sealed class ReceivedStudyIndexer(DataPaths paths, StudyIntake intake, MetadataStore store, ComparisonTrigger trigger,
     ServiceOptions options, ILogger<ReceivedStudyIndexer> log) : IStorageScpHandler
 {
     private readonly Lock _indexing = new();
 
-    /// <summary>Where received instances are kept (per study).</summary>
+    /// <summary>Name of the small file in a study's received folder that holds the study id it was last indexed as.</summary>
+    internal const string IndexedAsFile = "indexed-as";
+
+    /// <summary>Where received instances are kept (per study) until they are indexed.</summary>
     public string ReceivedRoot => Path.Combine(paths.Root, "received");
 
     public string DirectoryFor(string studyInstanceUid) =>
@@ -52,11 +57,13 @@ internal sealed class ReceivedStudyIndexer(DataPaths paths, StudyIntake intake, 
         // One study at a time: two associations ending together on one study would otherwise index it twice over.
         lock (_indexing)
         {
+            var received = Directory.GetFiles(dir, "*.dcm");
+            var files = EarlierInstances(dir);
+            foreach (var f in received) files[Path.GetFileName(f)] = f; // a re-sent instance replaces the earlier copy
             try
             {
-                var files = Directory.GetFiles(dir, "*.dcm").Order(StringComparer.Ordinal)
-                    .Select(f => (Path.GetFileName(f), File.ReadAllBytes(f))).ToList();
-                var study = intake.Ingest(files);
+                var study = intake.Ingest(files.Select(f => new IntakeFile(f.Key, f.Value)).ToList(), moveFiles: false);
+                RecordIndexed(dir, study.Id, received);
                 store.Audit("dicom:" + callingAe, "receive-study", study.Id);
                 log.LogInformation("study {StudyId} indexed from DICOM ({Files} instances)", study.Id, files.Count);
                 if (options.AutoCompare) trigger.Consider(study);
@@ -65,6 +72,37 @@ internal sealed class ReceivedStudyIndexer(DataPaths paths, StudyIntake intake, 
             {
                 log.LogWarning("received instances in {Folder} could not be indexed: input problem of kind {Kind}", Path.GetFileName(dir), e.Kind);
             }
+        }
+    }
+
+    /// <summary>
+    /// The instances indexed before for this study (name → file in the study folder it was last indexed as), so a
+    /// later association that adds series indexes the whole study again, not only its new part.
+    /// </summary>
+    private SortedDictionary<string, string> EarlierInstances(string dir)
+    {
+        var files = new SortedDictionary<string, string>(StringComparer.Ordinal);
+        string marker = Path.Combine(dir, IndexedAsFile);
+        if (!File.Exists(marker)) return files;
+        string earlier = Path.Combine(paths.Studies, File.ReadAllText(marker).Trim());
+        if (Directory.Exists(earlier))
+            foreach (var f in Directory.GetFiles(earlier, "*.dcm")) files[Path.GetFileName(f)] = f;
+        return files;
+    }
+
+    /// <summary>
+    /// After a successful index: notes the study id (written aside and renamed, so it is whole or absent) and removes
+    /// the received copies, which now live in the blob store and the study folder.
+    /// </summary>
+    private void RecordIndexed(string dir, string studyId, string[] received)
+    {
+        string tmp = Path.Combine(dir, IndexedAsFile + "." + Guid.NewGuid().ToString("N"));
+        File.WriteAllText(tmp, studyId);
+        File.Move(tmp, Path.Combine(dir, IndexedAsFile), overwrite: true);
+        foreach (var f in received)
+        {
+            try { File.Delete(f); }
+            catch (IOException) { } // left for the next association on this study, which indexes it again (same content, same blob)
         }
     }
 }

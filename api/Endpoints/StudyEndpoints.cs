@@ -25,13 +25,23 @@ internal static class StudyEndpoints
 
     private static async Task<IResult> Create(HttpRequest req, StudyIntake intake, MetadataStore store, DataPaths paths, ILogger<StudyIntake> log)
     {
-        var files = await ReadFiles(req, paths);
-        if (files is null) return Problems.Result(Problems.Document(415, "unsupported-media-type", "Unsupported media type",
-            "send application/zip or multipart/related; type=\"application/dicom\""));
-        var study = intake.Ingest(files);
-        store.Audit(req.HttpContext.KeyName(), "submit-study", study.Id);
-        log.LogInformation("study {StudyId} stored ({Kind}, {Files} files)", study.Id, study.Kind, files.Count);
-        return Results.Json(Describe(study), statusCode: 201);
+        // The upload is spooled to a scratch folder of its own and streamed from there: no file is held in memory.
+        string scratch = Path.Combine(paths.Incoming, "upload-" + Guid.NewGuid().ToString("N"));
+        try
+        {
+            var files = await ReadFiles(req, scratch);
+            if (files is null) return Problems.Result(Problems.Document(415, "unsupported-media-type", "Unsupported media type",
+                "send application/zip or multipart/related; type=\"application/dicom\""));
+            var study = intake.Ingest(files, moveFiles: true);
+            store.Audit(req.HttpContext.KeyName(), "submit-study", study.Id);
+            log.LogInformation("study {StudyId} stored ({Kind}, {Files} files)", study.Id, study.Kind, files.Count);
+            return Results.Json(Describe(study), statusCode: 201);
+        }
+        finally
+        {
+            try { if (Directory.Exists(scratch)) Directory.Delete(scratch, recursive: true); }
+            catch (IOException) { } // in use elsewhere: ScratchCleanup removes it later
+        }
     }
 
     private static IResult Get(string id, HttpContext ctx, MetadataStore store)
@@ -48,36 +58,34 @@ internal static class StudyEndpoints
         ["series"] = JsonNode.Parse(s.SeriesJson), ["caution"] = SoftwareInfo.Caution,
     };
 
-    private static async Task<List<(string, byte[])>?> ReadFiles(HttpRequest req, DataPaths paths)
+    private static async Task<IReadOnlyList<IntakeFile>?> ReadFiles(HttpRequest req, string scratch)
     {
         var type = MediaTypeHeaderValue.TryParse(req.ContentType, out var mt) ? mt.MediaType.Value : null;
-        if (type is "application/zip" or "application/x-zip-compressed") return await ReadZip(req, paths);
-        if (type is "multipart/related") return await ReadMultipart(req, mt!);
+        if (type is "application/zip" or "application/x-zip-compressed") return await ReadZip(req, scratch);
+        if (type is "multipart/related") return await ReadMultipart(req, mt!, scratch);
         return null;
     }
 
-    private static async Task<List<(string, byte[])>> ReadZip(HttpRequest req, DataPaths paths)
+    private static async Task<IReadOnlyList<IntakeFile>> ReadZip(HttpRequest req, string scratch)
     {
-        string tmp = Path.Combine(paths.Incoming, "upload-" + Guid.NewGuid().ToString("N") + ".zip");
-        try
-        {
-            await using (var f = File.Create(tmp)) await req.Body.CopyToAsync(f, req.HttpContext.RequestAborted);
-            return SafeZip.Read(tmp, ZipLimits.Default).Select(e => (e.Name, e.Data)).ToList();
-        }
-        finally { File.Delete(tmp); }
+        Directory.CreateDirectory(scratch);
+        string zip = Path.Combine(scratch, "upload.zip");
+        await using (var f = File.Create(zip)) await req.Body.CopyToAsync(f, req.HttpContext.RequestAborted);
+        return SafeZip.Extract(zip, ZipLimits.Default, Path.Combine(scratch, "entries"));
     }
 
-    private static async Task<List<(string, byte[])>> ReadMultipart(HttpRequest req, MediaTypeHeaderValue mt)
+    private static async Task<IReadOnlyList<IntakeFile>> ReadMultipart(HttpRequest req, MediaTypeHeaderValue mt, string scratch)
     {
         var boundary = HeaderUtilities.RemoveQuotes(mt.Boundary).Value;
         if (string.IsNullOrEmpty(boundary)) throw new BadHttpRequestException("multipart/related needs a boundary parameter");
+        Directory.CreateDirectory(scratch);
         var reader = new MultipartReader(boundary, req.Body);
-        var files = new List<(string, byte[])>();
+        var files = new List<IntakeFile>();
         while (await reader.ReadNextSectionAsync(req.HttpContext.RequestAborted) is { } section)
         {
-            using var ms = new MemoryStream();
-            await section.Body.CopyToAsync(ms, req.HttpContext.RequestAborted);
-            files.Add(($"part-{files.Count + 1:D5}.dcm", ms.ToArray()));
+            string name = $"part-{files.Count + 1:D5}.dcm", path = Path.Combine(scratch, name);
+            await using (var f = File.Create(path)) await section.Body.CopyToAsync(f, req.HttpContext.RequestAborted);
+            files.Add(new IntakeFile(name, path));
         }
         return files;
     }

@@ -12,10 +12,11 @@ namespace Serimetry.Api.Intake;
 /// </summary>
 internal static class SafeZip
 {
-    /// <summary>One unpacked entry: its relative name (forward slashes) and bytes.</summary>
-    public sealed record Entry(string Name, byte[] Data);
-
-    public static IReadOnlyList<Entry> Read(string zipPath, ZipLimits limits)
+    /// <summary>
+    /// Inflates every file entry into <paramref name="targetDir"/> (as numbered files, so entry names never touch the
+    /// disk) and returns them under their relative entry names (forward slashes).
+    /// </summary>
+    public static IReadOnlyList<IntakeFile> Extract(string zipPath, ZipLimits limits, string targetDir)
     {
         ZipArchive archive;
         try { archive = ZipFile.OpenRead(zipPath); }
@@ -38,7 +39,13 @@ internal static class SafeZip
                     throw new InputLimitException($"zip declares more than {limits.MaxTotalBytes:N0} bytes uncompressed", "request body",
                         "this looks like a zip bomb; refusing it");
             }
-            return files.Select(e => new Entry(e.FullName.Replace('\\', '/'), Inflate(e))).ToList();
+            Directory.CreateDirectory(targetDir);
+            return files.Select((e, i) =>
+            {
+                string path = Path.Combine(targetDir, i.ToString("D6", System.Globalization.CultureInfo.InvariantCulture));
+                Inflate(e, path);
+                return new IntakeFile(e.FullName.Replace('\\', '/'), path);
+            }).ToList();
         }
     }
 
@@ -60,19 +67,21 @@ internal static class SafeZip
                 "request body", "this looks like a zip bomb; refusing it");
     }
 
-    private static byte[] Inflate(ZipArchiveEntry e)
+    /// <summary>Inflates one entry to <paramref name="path"/> through a fixed buffer, stopping one byte past its declared size.</summary>
+    private static void Inflate(ZipArchiveEntry e, string path)
     {
-        var buf = new byte[e.Length];
+        var buf = new byte[1 << 16];
         using var s = e.Open();
-        int read = 0;
-        while (read < buf.Length)
+        using var f = File.Create(path);
+        long written = 0;
+        while (written <= e.Length)
         {
-            int n = s.Read(buf, read, buf.Length - read);
+            int n = s.Read(buf, 0, (int)Math.Min(buf.Length, e.Length - written + 1));
             if (n == 0) break;
-            read += n;
+            f.Write(buf, 0, n);
+            written += n;
         }
-        if (read != buf.Length || s.ReadByte() != -1)
+        if (written != e.Length)
             throw new InputLimitException($"zip entry '{e.FullName}' inflates to a size other than it declares", "request body", "refusing a corrupt or hostile archive");
-        return buf;
     }
 }

@@ -9,19 +9,26 @@ using Serimetry.Engine.Io.Series;
 
 namespace Serimetry.Api.Intake;
 
+/// <summary>One file of a study: its relative name in the study (forward slashes) and where its bytes are on disk.</summary>
+public sealed record IntakeFile(string Name, string Path);
+
 /// <summary>
 /// Turns uploaded files into a stored study: files go to the blob store, the study folder the engine reads is
 /// materialised under <c>studies/&lt;id&gt;</c> (temp folder, then one rename), and the study is indexed — with
 /// <see cref="StudyIndex"/>/<see cref="InspectReport"/> for DICOM, with <see cref="ExamManifest"/> for a NIfTI exam.
-/// The study id is a hash of the sorted (name, sha256) list, so re-sending the same files gives the same id.
+/// The study id is a hash of the sorted (name, sha256) list, so re-sending the same files gives the same id. Files are
+/// read from disk as streams, one at a time: a study of any size needs no more memory than a copy buffer.
 /// </summary>
 public sealed class StudyIntake(DataPaths paths, BlobStore blobs, MetadataStore store)
 {
-    /// <summary>Stores the files and returns the study row (the existing one when the same files came before).</summary>
-    public StudyRecord Ingest(IReadOnlyList<(string Name, byte[] Data)> files)
+    /// <summary>
+    /// Stores the files and returns the study row (the existing one when the same files came before). With
+    /// <paramref name="moveFiles"/> the files (scratch copies on the data folder's volume) are moved into the blob store.
+    /// </summary>
+    public StudyRecord Ingest(IReadOnlyList<IntakeFile> files, bool moveFiles)
     {
         if (files.Count == 0) throw new InputFormatException("the upload holds no files", "request body", "send a zip of DICOM files or of a NIfTI exam with exam.json");
-        var hashed = files.Select(f => (f.Name, Hash: blobs.Put(f.Data))).OrderBy(f => f.Name, StringComparer.Ordinal).ToList();
+        var hashed = files.Select(f => (f.Name, Hash: blobs.Put(f.Path, moveFiles))).OrderBy(f => f.Name, StringComparer.Ordinal).ToList();
         string id = StudyId(hashed);
         if (store.FindStudy(id) is { } existing) return existing;
         var (dir, created) = Materialise(id, hashed);

@@ -1,6 +1,8 @@
+using System.Data.Common;
 using System.Globalization;
 using System.Text.Json;
 using Hangfire;
+using Hangfire.Server;
 using Serimetry.Api.Hosting;
 using Serimetry.Api.Storage;
 using Serimetry.Engine.Change;
@@ -16,12 +18,44 @@ namespace Serimetry.Api.Jobs;
 /// finishes it; a job whose worker died is fetched again after the invisibility timeout. The job is idempotent:
 /// outputs are written to a scratch folder and renamed into <c>comparisons/&lt;id&gt;</c> in one step, and a job whose
 /// folder or final state already exists ends at once, so a retried job never produces a second result.
+/// Errors of the metadata store (<see cref="DbException"/>: SQLite, PostgreSQL) are passing: the attempt is given back
+/// to Hangfire, which runs it again with back-off (<see cref="Retries"/> times); only when those retries are spent is the
+/// comparison ended as failed. Engine errors end it as failed at once.
 /// </summary>
 public sealed class ComparisonJob(DataPaths paths, MetadataStore store, IBackgroundJobClient jobs, ILogger<ComparisonJob> log)
 {
-    /// <summary>Runs comparison <paramref name="comparisonId"/> (engine errors end it as failed, not retried).</summary>
-    [AutomaticRetry(Attempts = 0)]
-    public void Run(string comparisonId)
+    /// <summary>How often Hangfire runs the job again after a store error (delays 10 s, 30 s, 90 s, 4.5 min, 10 min).</summary>
+    public const int Retries = 5;
+
+    /// <summary>
+    /// Runs comparison <paramref name="comparisonId"/>. <paramref name="context"/> is Hangfire's (it passes its own;
+    /// enqueue with null), read for the retry count.
+    /// </summary>
+    [AutomaticRetry(Attempts = Retries, DelaysInSeconds = [10, 30, 90, 270, 600], OnAttemptsExceeded = AttemptsExceededAction.Fail)]
+    public void Run(string comparisonId, PerformContext? context)
+    {
+        try { RunAttempt(comparisonId); }
+        catch (Exception e) when (IsStoreError(e))
+        {
+            int retries = context?.GetJobParameter<int>("RetryCount") ?? 0;
+            bool last = retries >= Retries;
+            // Type only: provider messages may quote SQL values.
+            log.LogWarning("comparison {ComparisonId}: the metadata store failed with {ErrorType} (retry {Retry} of {Retries}){Then}",
+                comparisonId, e.GetType().FullName, retries, Retries, last ? "; no retries left, ending it as failed" : "; it runs again later");
+            if (last) EndAfterStoreFailure(comparisonId);
+            throw; // Hangfire schedules the next attempt (or records the job as failed after the last)
+        }
+    }
+
+    /// <summary>True for an error of the metadata store, also when the engine wrapped it (a progress write fails inside it).</summary>
+    internal static bool IsStoreError(Exception e) => e switch
+    {
+        DbException => true,
+        AggregateException a => a.InnerExceptions.Any(IsStoreError),
+        _ => e.InnerException is { } inner && IsStoreError(inner),
+    };
+
+    private void RunAttempt(string comparisonId)
     {
         var rec = store.FindComparison(comparisonId);
         if (rec is null || rec.State is "done" or "failed") return;
@@ -37,13 +71,25 @@ public sealed class ComparisonJob(DataPaths paths, MetadataStore store, IBackgro
         RemoveLeftovers(comparisonId);
         log.LogInformation("comparison {ComparisonId} started (attempt {Attempt})", comparisonId, rec.Runs + 1);
         var submission = JsonSerializer.Deserialize<ComparisonSubmission>(rec.RequestJson, ServiceJson.Options)!;
+        Execute(comparisonId, submission, final);
+        // Ended (done or failed): tell the caller. A store error above skips this; the retry that ends it notifies.
+        if (submission.CallbackUrl is not null) jobs.Enqueue<CallbackJob>(j => j.Notify(comparisonId));
+    }
+
+    /// <summary>The last attempt met a store error: end the comparison as failed when the store answers again (best effort).</summary>
+    private void EndAfterStoreFailure(string comparisonId)
+    {
         try
         {
-            Execute(comparisonId, submission, final);
+            var rec = store.FindComparison(comparisonId);
+            if (Complete(comparisonId, "failed", Problems.Document(503, "store-unavailable", "Comparison failed",
+                    "the metadata store failed on every attempt; submit the comparison again").ToJsonString())
+                && rec is not null && JsonSerializer.Deserialize<ComparisonSubmission>(rec.RequestJson, ServiceJson.Options)?.CallbackUrl is not null)
+                jobs.Enqueue<CallbackJob>(j => j.Notify(comparisonId));
         }
-        finally
+        catch (Exception e) when (IsStoreError(e))
         {
-            if (submission.CallbackUrl is not null) jobs.Enqueue<CallbackJob>(j => j.Notify(comparisonId));
+            log.LogError("comparison {ComparisonId} could not be ended: the metadata store still fails ({ErrorType})", comparisonId, e.GetType().FullName);
         }
     }
 
@@ -68,7 +114,7 @@ public sealed class ComparisonJob(DataPaths paths, MetadataStore store, IBackgro
             Complete(comparisonId, "failed", ServiceTerms.Problem(e).ToJsonString());
             log.LogWarning("comparison {ComparisonId} failed: input problem of kind {Kind}", comparisonId, e.Kind);
         }
-        catch (Exception e) when (e is not OutOfMemoryException)
+        catch (Exception e) when (e is not OutOfMemoryException && !IsStoreError(e))
         {
             Complete(comparisonId, "failed",
                 Problems.Document(500, "internal", "Comparison failed", "the engine failed; the service log has the error type").ToJsonString());

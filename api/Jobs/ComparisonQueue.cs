@@ -14,7 +14,7 @@ public static class ComparisonQueue
         string id = Guid.NewGuid().ToString("N");
         var patient = store.FindStudy(body.BaselineStudyId!)!.PatientId;
         store.AddComparison(id, patient, JsonSerializer.Serialize(body, ServiceJson.Options));
-        jobs.Enqueue<ComparisonJob>(j => j.Run(id));
+        jobs.Enqueue<ComparisonJob>(j => j.Run(id, null));
         return id;
     }
 }

@@ -15,7 +15,7 @@ public sealed partial class MetadataStore : IDisposable
 {
     private readonly SqlDialect _dialect;
 
-    private MetadataStore(SqlDialect dialect)
+    internal MetadataStore(SqlDialect dialect)
     {
         _dialect = dialect;
         try

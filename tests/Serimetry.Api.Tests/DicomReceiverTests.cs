@@ -56,9 +56,11 @@ public sealed class DicomReceiverTests : IDisposable
         string baseline = indexed[0].Groups[1].Value;
         Assert.Equal(sent.Length.ToString(System.Globalization.CultureInfo.InvariantCulture), indexed[0].Groups[2].Value);
 
+        // Once indexed, received/ keeps no copy of the instances: the study folder (and the blob store) hold them.
+        Assert.Empty(Directory.GetFiles(Path.Combine(_data, "received"), "*.dcm", SearchOption.AllDirectories));
         // Every instance stored: the data set bytes after the File Meta equal those of the file storescu read (dcmtk
         // sends the data set unchanged when the transfer syntax is kept).
-        var stored = Directory.GetFiles(Path.Combine(_data, "received"), "*.dcm", SearchOption.AllDirectories)
+        var stored = Directory.GetFiles(Path.Combine(_data, "studies", baseline), "*.dcm")
             .ToDictionary(f => Path.GetFileNameWithoutExtension(f));
         Assert.Equal(sent.Length, stored.Count);
         foreach (var f in sent)
@@ -134,8 +136,12 @@ public sealed class DicomReceiverTests : IDisposable
                 Assert.Equal(uid, DicomTools.Dcmdump(file, "0002,0010"));
             }
             DicomTools.Ok("storescu", "-aec", "SERIMETRY", proposal, "127.0.0.1", p, file);
-            await WaitLog(service, @"study \w+ indexed from DICOM", i + 1);
-            string stored = Directory.GetFiles(Path.Combine(_data, "received"), DicomTools.SopInstanceUid(file) + ".dcm", SearchOption.AllDirectories).Single();
+            var indexed = await WaitLog(service, @"study (\w+) indexed from DICOM \((\d+) instances\)", i + 1);
+            // One instance per association, all of one study: each index holds every instance received so far, also
+            // after the earlier ones left received/.
+            Assert.Equal((i + 1).ToString(System.Globalization.CultureInfo.InvariantCulture), indexed[i].Groups[2].Value);
+            Assert.Empty(Directory.GetFiles(Path.Combine(_data, "received"), "*.dcm", SearchOption.AllDirectories));
+            string stored = Path.Combine(_data, "studies", indexed[i].Groups[1].Value, DicomTools.SopInstanceUid(file) + ".dcm");
             // Src: dcmtk's dcmdump reads the transfer syntax we recorded in the File Meta.
             Assert.Equal(uid, DicomTools.Dcmdump(stored, "0002,0010"));
             if (tool.Length > 0) Assert.Equal(DicomTools.DatasetBytes(file), DicomTools.DatasetBytes(stored));
