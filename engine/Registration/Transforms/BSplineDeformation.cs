@@ -181,24 +181,22 @@ public sealed class BSplineDeformation : ISpatialTransform
         Weights(ci.X - bx - 1, wx, scratch);
         Weights(ci.Y - by - 1, wy, scratch);
         Weights(ci.Z - bz - 1, wz, scratch);
-        int nx = GridSize.X, ny = GridSize.Y, nz = GridSize.Z, m = 0;
         bool any = false;
-        for (int c = 0; c < 4; c++)
+        for (int c = 0, m = 0; c < 4; c++)
             for (int b = 0; b < 4; b++)
                 for (int a = 0; a < 4; a++, m++)
                 {
-                    int i = bx + a, j = by + b, k = bz + c;
-                    if ((uint)i >= (uint)nx || (uint)j >= (uint)ny || (uint)k >= (uint)nz)
-                    {
-                        indices[m] = -1; weights[m] = 0;
-                        continue;
-                    }
-                    indices[m] = i + nx * (j + ny * k);
-                    weights[m] = wx[a] * wy[b] * wz[c];
-                    any = true;
+                    int p = indices[m] = ControlPointIndex(bx + a, by + b, bz + c);
+                    weights[m] = p < 0 ? 0 : wx[a] * wy[b] * wz[c];
+                    any |= p >= 0;
                 }
         return any;
     }
+
+    /// <summary>Flat index of control point (i, j, k) (x component), or −1 outside the grid.</summary>
+    [System.Runtime.CompilerServices.MethodImpl(System.Runtime.CompilerServices.MethodImplOptions.AggressiveInlining)]
+    private int ControlPointIndex(int i, int j, int k) =>
+        (uint)i >= (uint)GridSize.X || (uint)j >= (uint)GridSize.Y || (uint)k >= (uint)GridSize.Z ? -1 : i + GridSize.X * (j + GridSize.Y * k);
 
     /// <summary>Position (LPS mm) of control point (i, j, k).</summary>
     public Vec3 ControlPointPosition(int i, int j, int k) =>
@@ -214,19 +212,16 @@ public sealed class BSplineDeformation : ISpatialTransform
         Weights(ci.X - bx - 1, wx, dx);
         Weights(ci.Y - by - 1, wy, dy);
         Weights(ci.Z - bz - 1, wz, dz);
-        int nx = GridSize.X, ny = GridSize.Y, nz = GridSize.Z, m = 0;
         var t = _toIndex;
-        for (int c = 0; c < 4; c++)
+        for (int c = 0, m = 0; c < 4; c++)
             for (int b = 0; b < 4; b++)
                 for (int a = 0; a < 4; a++, m++)
                 {
-                    int i = bx + a, j = by + b, k = bz + c;
-                    if ((uint)i >= (uint)nx || (uint)j >= (uint)ny || (uint)k >= (uint)nz)
+                    if ((indices[m] = ControlPointIndex(bx + a, by + b, bz + c)) < 0)
                     {
-                        indices[m] = -1; gx[m] = gy[m] = gz[m] = 0;
+                        gx[m] = gy[m] = gz[m] = 0;
                         continue;
                     }
-                    indices[m] = i + nx * (j + ny * k);
                     double da = dx[a] * wy[b] * wz[c], db = wx[a] * dy[b] * wz[c], dc = wx[a] * wy[b] * dz[c];
                     // ∂β/∂x_j = Σ_a ∂β/∂ξ_a · ∂ξ_a/∂x_j
                     gx[m] = da * t.M00 + db * t.M10 + dc * t.M20;
