@@ -101,13 +101,7 @@ internal sealed class ZipReader : IDisposable
     {
         var buffer = new byte[e.Length];
         using var s = e.Open();
-        int n = 0;
-        while (n < buffer.Length)
-        {
-            int r = s.Read(buffer, n, buffer.Length - n);
-            if (r == 0) break;
-            n += r;
-        }
+        int n = s.ReadAtLeast(buffer, buffer.Length, throwOnEndOfStream: false);
         if (n < buffer.Length)
             throw new InputFormatException($"zip entry '{e.FullName}' ended after {n:N0} of its declared {e.Length:N0} bytes", _path);
         if (s.ReadByte() >= 0)
@@ -120,13 +114,7 @@ internal sealed class ZipReader : IDisposable
     {
         var buffer = new byte[(int)Math.Min(count, e.Length)];
         using var s = e.Open();
-        int n = 0;
-        while (n < buffer.Length)
-        {
-            int r = s.Read(buffer, n, buffer.Length - n);
-            if (r == 0) break;
-            n += r;
-        }
+        int n = s.ReadAtLeast(buffer, buffer.Length, throwOnEndOfStream: false);
         return buffer[..n];
     }
 
