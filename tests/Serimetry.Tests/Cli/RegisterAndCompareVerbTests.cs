@@ -32,13 +32,7 @@ public sealed class RegisterAndCompareVerbTests : IDisposable
 
     private string P(params string[] parts) => Path.Combine([_dir, .. parts]);
 
-    private static (int Code, string Out, string Err) Run(params string[] args)
-    {
-        var o = new StringWriter();
-        var e = new StringWriter();
-        int code = CliHost.Run(args, o, e);
-        return (code, o.ToString(), e.ToString());
-    }
+    private static (int Code, string Out, string Err) Run(params string[] args) => CliRun.Run(args);
 
     [Fact]
     public void DeformableRegisterWithTheLesionReportsHowMuchChangeItAbsorbed()

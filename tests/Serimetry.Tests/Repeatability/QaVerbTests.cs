@@ -1,3 +1,4 @@
+using Serimetry.Tests.Cli;
 using Serimetry.Cli;
 using Serimetry.Engine.Repeatability;
 using Xunit;
@@ -10,13 +11,7 @@ public sealed class QaVerbTests : IDisposable
 
     public void Dispose() => Directory.Delete(_dir, true);
 
-    private (int Code, string Out, string Err) Run(params string[] args)
-    {
-        var o = new StringWriter();
-        var e = new StringWriter();
-        int code = CliHost.Run(args, o, e);
-        return (code, o.ToString(), e.ToString());
-    }
+    private static (int Code, string Out, string Err) Run(params string[] args) => CliRun.Run(args);
 
     [Fact]
     public void TestRetestWritesALoadableProfile()

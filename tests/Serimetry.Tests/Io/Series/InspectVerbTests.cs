@@ -1,5 +1,5 @@
+using Serimetry.Tests.Cli;
 using System.Text.Json;
-using Serimetry.Cli;
 using Serimetry.Engine.Core;
 using Serimetry.Engine.Io.Nifti;
 using Serimetry.Tests.Shared;
@@ -13,13 +13,7 @@ public sealed class InspectVerbTests : IDisposable
 
     public void Dispose() => Directory.Delete(_tmp, true);
 
-    private static (int Code, string Out, string Err) Run(params string[] args)
-    {
-        var o = new StringWriter();
-        var e = new StringWriter();
-        int code = CliHost.Run(args, o, e);
-        return (code, o.ToString(), e.ToString());
-    }
+    private static (int Code, string Out, string Err) Run(params string[] args) => CliRun.Run(args);
 
     [Fact]
     public void FolderJsonHasTheContractShape()

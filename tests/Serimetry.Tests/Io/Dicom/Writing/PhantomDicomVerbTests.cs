@@ -1,4 +1,4 @@
-using Serimetry.Cli;
+using Serimetry.Tests.Cli;
 using Serimetry.Engine.Phantoms;
 using Xunit;
 
@@ -11,13 +11,7 @@ public sealed class PhantomDicomVerbTests : IDisposable
 
     public void Dispose() => Directory.Delete(_dir, true);
 
-    private static (int Code, string Out, string Err) Run(params string[] args)
-    {
-        var o = new StringWriter();
-        var e = new StringWriter();
-        int code = CliHost.Run(args, o, e);
-        return (code, o.ToString(), e.ToString());
-    }
+    private static (int Code, string Out, string Err) Run(params string[] args) => CliRun.Run(args);
 
     [Fact]
     public void Dicom_phantom_is_repeatable_and_inspect_finds_its_three_series()
